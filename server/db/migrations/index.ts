@@ -1,0 +1,6 @@
+import { CreateCompany1796164474353 } from "./1796164474353-create-company.js";
+
+// Every migration, oldest first. Listed as classes rather than a file glob so
+// the same list loads under tsx, vitest and plain node; a test checks that
+// every file in this folder is listed. Add each new migration here.
+export const migrations = [CreateCompany1796164474353];

@@ -1,0 +1,27 @@
+import type { DataSource } from "typeorm";
+
+let connecting: Promise<unknown> | undefined;
+
+/**
+ * True when the database answers `SELECT 1` within timeoutMs. A DataSource that
+ * could not connect at start is initialized here, so the app recovers by itself.
+ */
+export async function pingDatabase(db: DataSource, timeoutMs: number): Promise<boolean> {
+  let timer: NodeJS.Timeout | undefined;
+  const timeout = new Promise<false>((resolve) => {
+    timer = setTimeout(() => resolve(false), timeoutMs);
+  });
+  const ping = (async () => {
+    if (!db.isInitialized) {
+      connecting ??= db.initialize().finally(() => (connecting = undefined));
+      await connecting;
+    }
+    await db.query("SELECT 1");
+    return true;
+  })().catch(() => false);
+  try {
+    return await Promise.race([ping, timeout]);
+  } finally {
+    clearTimeout(timer);
+  }
+}

@@ -1,0 +1,33 @@
+import type { ApiErrorCode } from "../shared/schemas/error.js";
+
+// A code without a status fails to compile.
+export const HTTP_STATUS: Record<ApiErrorCode, number> = {
+  invalid_input: 400,
+  invalid_json: 400,
+  unauthenticated: 401,
+  forbidden: 403,
+  not_found: 404,
+  conflict: 409,
+  payload_too_large: 413,
+  unsupported_media_type: 415,
+  unprocessable: 422,
+  rate_limited: 429,
+  internal: 500,
+  service_unavailable: 503,
+};
+
+/** An error a service throws on purpose; the error handler turns it into the API's error shape. */
+export class AppError extends Error {
+  override name = "AppError";
+  constructor(
+    readonly code: ApiErrorCode,
+    message: string,
+    readonly details?: Record<string, unknown>,
+  ) {
+    super(message);
+  }
+
+  get status(): number {
+    return HTTP_STATUS[this.code];
+  }
+}

@@ -1,0 +1,4 @@
+// npm test: install what is missing, start a throwaway PostgreSQL, run vitest, stop it.
+import { runTypeScript } from "./ensure-deps.mjs";
+
+await runTypeScript("./run-tests.ts");

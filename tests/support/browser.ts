@@ -1,0 +1,58 @@
+import { existsSync, mkdirSync, mkdtempSync } from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { chromium, type BrowserContext, type Page } from "playwright-core";
+
+export const CHROMIUM_PATH = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
+
+/** Debian's Chromium is installed by .ci/run; on a developer machine without it, browser tests skip and say why. */
+export const hasChromium = existsSync(CHROMIUM_PATH);
+if (!hasChromium && process.env.CI) {
+  throw new Error(`Chromium is missing at ${CHROMIUM_PATH}; .ci/run should have installed it (apt-get install -y chromium).`);
+}
+
+// Without the background-networking flags Chromium tries to reach outside hosts, which this machine refuses.
+const ARGS = [
+  "--headless",
+  "--no-sandbox",
+  "--disable-gpu",
+  "--disable-quic",
+  "--no-first-run",
+  "--disable-background-networking",
+  "--disable-component-update",
+  "--disable-sync",
+];
+
+export async function launchBrowser(): Promise<BrowserContext> {
+  return chromium.launchPersistentContext(mkdtempSync(path.join(os.tmpdir(), "runwright-chromium-")), {
+    executablePath: CHROMIUM_PATH,
+    headless: true,
+    args: ARGS,
+    viewport: { width: 1280, height: 800 },
+  });
+}
+
+/** Records console errors and failed or foreign requests on a page, for a test to assert empty. */
+export function watchPage(page: Page, origin: string): { problems: string[] } {
+  const problems: string[] = [];
+  page.on("console", (msg) => {
+    if (msg.type() === "error") problems.push(`console error: ${msg.text()}`);
+  });
+  page.on("pageerror", (error) => problems.push(`page error: ${error.message}`));
+  page.on("requestfailed", (req) => problems.push(`request failed: ${req.url()} ${req.failure()?.errorText ?? ""}`));
+  page.on("request", (req) => {
+    const url = req.url();
+    if (!url.startsWith(origin) && !url.startsWith("data:")) problems.push(`foreign request: ${url}`);
+  });
+  page.on("response", (res) => {
+    if (res.status() >= 400 && !res.url().endsWith("/api/health")) problems.push(`HTTP ${res.status()}: ${res.url()}`);
+  });
+  return { problems };
+}
+
+/** Folder for screenshots (ignored by git). */
+export function artifactsDir(name: string): string {
+  const dir = path.resolve("tests", ".artifacts", name);
+  mkdirSync(dir, { recursive: true });
+  return dir;
+}
