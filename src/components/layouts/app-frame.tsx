@@ -36,8 +36,8 @@ export function AppFrame() {
                   end={to === "/"}
                   className={({ isActive }) =>
                     cn(
-                      "flex items-center gap-2 whitespace-nowrap rounded-md px-3 py-2 text-sm font-medium",
-                      isActive ? "bg-ink-800 text-white shadow-[inset_3px_0_0_var(--color-copper-400)]" : "text-ink-300 hover:bg-ink-800 hover:text-white",
+                      "flex items-center gap-2 whitespace-nowrap rounded-md border-l-2 px-3 py-2 text-sm font-medium",
+                      isActive ? "border-copper-400 bg-ink-800 text-white" : "border-transparent text-ink-300 hover:bg-ink-800 hover:text-white",
                     )
                   }
                 >
