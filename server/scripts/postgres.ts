@@ -59,7 +59,7 @@ export class LocalPostgres {
    * server already running on the same folder (then `stop()` leaves it alone).
    */
   async ensureRunning(): Promise<void> {
-    this.binDir = findServerBinaries() ?? installServerBinaries();
+    this.binDir = ensureServerBinaries();
     const user = serverUser();
     this.prepareFolder(user);
     if (!existsSync(path.join(this.dataDir, "PG_VERSION"))) this.initCluster();
@@ -187,6 +187,17 @@ export class LocalPostgres {
   }
 }
 
+/**
+ * True when the user PostgreSQL runs as can walk into dir (or, if dir does not
+ * exist yet, into its nearest existing parent). Always true when not root.
+ */
+export function serverUserCanReach(dir: string): boolean {
+  if (!isRoot()) return true;
+  let existing = path.resolve(dir);
+  while (!existsSync(existing)) existing = path.dirname(existing);
+  return spawnSync("runuser", ["-u", "postgres", "--", "test", "-x", existing]).status === 0;
+}
+
 function isRoot(): boolean {
   return process.getuid?.() === 0;
 }
@@ -214,6 +225,11 @@ export function findServerBinaries(): string | undefined {
     .filter((name) => existsSync(path.join(base, name, "bin", "postgres")))
     .sort((a, b) => Number(b) - Number(a));
   return majors.length > 0 ? path.join(base, majors[0], "bin") : undefined;
+}
+
+/** The server binaries' folder; installs them with apt-get first when they are missing and we are root. */
+export function ensureServerBinaries(): string {
+  return findServerBinaries() ?? installServerBinaries();
 }
 
 function installServerBinaries(): string {
