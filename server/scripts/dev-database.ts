@@ -14,10 +14,10 @@ export const DEV_DATABASE = "runwright";
  * mktemp folder), and with RUNWRIGHT_DATA_DIR left at its default, the cluster
  * moves to a per-checkout folder under /var/tmp instead of failing.
  */
-export function devClusterRoot(env: Env, source: NodeJS.ProcessEnv = process.env): string {
-  const wanted = path.join(dataDirectory(env, projectRoot), "postgres");
+export function devClusterRoot(env: Env, source: NodeJS.ProcessEnv = process.env, checkout = projectRoot): string {
+  const wanted = path.join(dataDirectory(env, checkout), "postgres");
   if (source.RUNWRIGHT_DATA_DIR || serverUserCanReach(path.dirname(wanted))) return wanted;
-  const tag = createHash("sha256").update(projectRoot).digest("hex").slice(0, 10);
+  const tag = createHash("sha256").update(checkout).digest("hex").slice(0, 10);
   return path.join("/var/tmp", `runwright-${tag}`, "postgres");
 }
 
