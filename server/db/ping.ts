@@ -1,6 +1,7 @@
 import type { DataSource } from "typeorm";
 
-let connecting: Promise<unknown> | undefined;
+// One initialize() at a time per DataSource, however many pings wait on it.
+const connecting = new WeakMap<DataSource, Promise<unknown>>();
 
 /**
  * True when the database answers `SELECT 1` within timeoutMs. A DataSource that
@@ -13,8 +14,12 @@ export async function pingDatabase(db: DataSource, timeoutMs: number): Promise<b
   });
   const ping = (async () => {
     if (!db.isInitialized) {
-      connecting ??= db.initialize().finally(() => (connecting = undefined));
-      await connecting;
+      let pending = connecting.get(db);
+      if (!pending) {
+        pending = db.initialize().finally(() => connecting.delete(db));
+        connecting.set(db, pending);
+      }
+      await pending;
     }
     await db.query("SELECT 1");
     return true;

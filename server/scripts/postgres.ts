@@ -95,9 +95,7 @@ export class LocalPostgres {
   /** Stops the server if this object started it. */
   stop(options: { force?: boolean } = {}): void {
     if (!this.startedHere && !options.force) return;
-    if (!existsSync(path.join(this.dataDir, "postmaster.pid"))) return;
-    if (!this.binDir) this.binDir = findServerBinaries() ?? "";
-    if (!this.binDir || !existsSync(path.join(this.dataDir, "postmaster.pid"))) return;
+    if (!existsSync(path.join(this.dataDir, "postmaster.pid")) || !this.knownBinaries()) return;
     this.run("pg_ctl", ["-D", this.dataDir, "-m", "fast", "-w", "-t", "30", "stop"]);
     this.startedHere = false;
   }
@@ -105,12 +103,24 @@ export class LocalPostgres {
   /** Port of the server running on this cluster, or undefined. */
   runningServerPort(): number | undefined {
     const pidFile = path.join(this.dataDir, "postmaster.pid");
-    if (!existsSync(pidFile)) return undefined;
+    if (!existsSync(pidFile) || !this.knownBinaries()) return undefined;
     const status = this.run("pg_ctl", ["-D", this.dataDir, "status"]);
     if (status.status !== 0) return undefined;
     // postmaster.pid line 4 holds the port the server listens on.
     const port = Number(readFileSync(pidFile, "utf8").split("\n")[3]);
     return Number.isInteger(port) ? port : undefined;
+  }
+
+  /** The binaries' folder if PostgreSQL is installed; never installs (for stop and status). */
+  private knownBinaries(): string | undefined {
+    if (!this.binDir) {
+      try {
+        this.binDir = findServerBinaries() ?? "";
+      } catch {
+        this.binDir = "";
+      }
+    }
+    return this.binDir || undefined;
   }
 
   private prepareFolder(user: ServerUser): void {
