@@ -4,7 +4,7 @@ import type { BrowserContext } from "playwright-core";
 import type { DataSource } from "typeorm";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { createApp } from "../../server/app.js";
-import { artifactsDir, hasChromium, launchBrowser, watchPage } from "../support/browser.js";
+import { artifactsDir, closeBrowser, hasChromium, launchBrowser, watchPage } from "../support/browser.js";
 import { serveOnLoopback } from "../support/server.js";
 import { openTestDb } from "../support/test-db.js";
 
@@ -20,7 +20,7 @@ describe.skipIf(!hasChromium)("the app shell in headless Chromium", () => {
     browser = await launchBrowser();
   });
   afterAll(async () => {
-    await browser?.close();
+    await closeBrowser(browser);
     await server?.close();
     await db?.destroy();
   });

@@ -1,4 +1,4 @@
-import { existsSync, mkdirSync, mkdtempSync } from "node:fs";
+import { existsSync, mkdirSync, mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
@@ -23,13 +23,27 @@ const ARGS = [
   "--disable-sync",
 ];
 
+/** A fresh Chromium with an empty profile; closeBrowser() ends it and removes the profile. */
 export async function launchBrowser(): Promise<BrowserContext> {
-  return chromium.launchPersistentContext(mkdtempSync(path.join(os.tmpdir(), "runwright-chromium-")), {
+  const profile = mkdtempSync(path.join(os.tmpdir(), "runwright-chromium-"));
+  const context = await chromium.launchPersistentContext(profile, {
     executablePath: CHROMIUM_PATH,
     headless: true,
     args: ARGS,
     viewport: { width: 1280, height: 800 },
   });
+  profiles.set(context, profile);
+  return context;
+}
+
+const profiles = new WeakMap<BrowserContext, string>();
+
+export async function closeBrowser(context: BrowserContext | undefined): Promise<void> {
+  if (!context) return;
+  await context.close();
+  const profile = profiles.get(context);
+  // Chromium may still be flushing the profile for a moment after close.
+  if (profile) rmSync(profile, { recursive: true, force: true, maxRetries: 20, retryDelay: 100 });
 }
 
 /** Records console errors and failed or foreign requests on a page, for a test to assert empty. */
