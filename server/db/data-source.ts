@@ -25,9 +25,3 @@ export function createDataSource({ url, connectTimeoutMs = 5000, logging = false
     extra: { connectionTimeoutMillis: connectTimeoutMs, max: 10 },
   });
 }
-
-// For the TypeORM command line (migration:generate / migration:create), which
-// wants a module whose default export is a DataSource.
-export default createDataSource({
-  url: process.env.DATABASE_URL ?? "postgres://runwright@127.0.0.1:5544/runwright",
-});

@@ -37,7 +37,7 @@ async function main([command, name]: string[]): Promise<void> {
         await db.destroy();
         const target = path.join("server", "db", "migrations", name);
         const args = ["--import", "tsx", "node_modules/typeorm/cli.js", `migration:${command}`];
-        if (command === "generate") args.push("-d", "server/db/data-source.ts", "--pretty");
+        if (command === "generate") args.push("-d", "server/db/cli-data-source.ts", "--pretty");
         args.push(target);
         const result = spawnSync(process.execPath, args, { cwd: projectRoot, stdio: "inherit", env: { ...process.env, DATABASE_URL: url } });
         process.exitCode = result.status ?? 1;
