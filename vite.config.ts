@@ -24,12 +24,22 @@ export default defineConfig({
         test: {
           name: "server",
           environment: "node",
-          include: ["tests/server/**/*.test.ts", "tests/shared/**/*.test.ts", "tests/e2e/**/*.test.ts"],
+          include: ["tests/server/**/*.test.ts", "tests/e2e/**/*.test.ts"],
           globalSetup: ["tests/support/global-setup.ts"],
           // One database for the run: files take turns rather than race each other.
           fileParallelism: false,
           testTimeout: 30000,
           hookTimeout: 60000,
+        },
+      },
+      {
+        // Pure code from shared/ (the engine): no database, no client build.
+        extends: true,
+        test: {
+          name: "engine",
+          environment: "node",
+          include: ["tests/shared/**/*.test.ts"],
+          testTimeout: 60000,
         },
       },
       {
