@@ -76,6 +76,8 @@ export interface PrepareOptions {
   /** Extra node pairs to include in the sparsity pattern (e.g. every point's + and − terminal,
    *  so the selected inverse yields the Thevenin resistance between them). */
   extraPairs?: ReadonlyArray<readonly [number, number]>;
+  /** Optional group id per node: nodes of one group are ordered together (see groupedOrder). */
+  nodeGroups?: Int32Array;
 }
 
 const K_RES = 0;
@@ -293,7 +295,22 @@ export function prepareCircuit(netlist: Netlist, options: PrepareOptions = {}): 
     const va = nodeVar[a]; const vb = nodeVar[b];
     if (va >= 0 && vb >= 0 && va !== vb) extraPair[i] = pb.pair(va, vb);
   });
-  const { sym, pairSlot } = analyze(pb);
+  let varGroups: Int32Array | undefined;
+  if (options.nodeGroups) {
+    varGroups = new Int32Array(varCount).fill(-1);
+    for (let i = 0; i < nodeCount; i++) {
+      const v = nodeVar[i];
+      if (v >= 0 && varGroups[v] < 0) varGroups[v] = options.nodeGroups[i];
+    }
+    // Renumber the groups that hold unknowns 0 … G − 1.
+    const renum = new Map<number, number>();
+    for (let v = 0; v < varCount; v++) {
+      let id = renum.get(varGroups[v]);
+      if (id === undefined) { id = renum.size; renum.set(varGroups[v], id); }
+      varGroups[v] = id;
+    }
+  }
+  const { sym, pairSlot } = analyze(pb, varGroups);
   for (let e = 0; e < m; e++) {
     const k = kinds[e];
     if (k !== K_RES && k !== K_VS && k !== K_CP) continue;

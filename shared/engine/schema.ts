@@ -78,7 +78,7 @@ export const runSchema = z.strictObject({
   /** Size of the − conductor when it differs from the + conductor. */
   returnSize: z.string().min(1).max(40).optional(),
   stranding: z.enum(["class5", "class2"]).default("class5"),
-  insulationC: z.union([z.literal(60), z.literal(75), z.literal(90)]).default(75),
+  insulationC: z.literal([60, 75, 90], { error: "must be 60, 75 or 90 (°C)" }).default(75),
   fuseA: upTo(positive, 1e5, "A").optional(),
   fuseInterruptingA: upTo(positive, 1e6, "A").optional(),
   /** feeder runs bring power to a distribution point; branch runs (the default) feed loads. */

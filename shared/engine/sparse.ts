@@ -136,12 +136,53 @@ export function minimumDegreeOrder(n: number, rows: readonly number[], cols: rea
   return order;
 }
 
+/** Minimum degree on a compressed graph: variables that always come together (the + and −
+ *  terminal of one point) form a group; the groups are ordered by minimum degree and each group's
+ *  variables are eliminated one after the other. The group graph of a two-wire network is its
+ *  point graph, half the size with a quarter of the fill to track (each point is a 2 × 2 block),
+ *  so ordering a 10,000-point grid takes a fraction of the time of ordering its 20,000
+ *  terminals one by one. */
+export function groupedOrder(n: number, rows: readonly number[], cols: readonly number[], groups: Int32Array): Int32Array {
+  let g = 0;
+  for (let i = 0; i < n; i++) if (groups[i] + 1 > g) g = groups[i] + 1;
+  const seen = new Set<number>();
+  const gr: number[] = [];
+  const gc: number[] = [];
+  for (let e = 0; e < rows.length; e++) {
+    const a = groups[rows[e]];
+    const b = groups[cols[e]];
+    if (a === b) continue;
+    const lo = a < b ? a : b;
+    const hi = a < b ? b : a;
+    const key = lo * g + hi;
+    if (seen.has(key)) continue;
+    seen.add(key);
+    gr.push(lo);
+    gc.push(hi);
+  }
+  const groupOrder = minimumDegreeOrder(g, gr, gc);
+  // Members of each group, in index order (counting sort).
+  const start = new Int32Array(g + 1);
+  for (let i = 0; i < n; i++) start[groups[i] + 1]++;
+  for (let k = 0; k < g; k++) start[k + 1] += start[k];
+  const members = new Int32Array(n);
+  const fill = start.slice(0, g);
+  for (let i = 0; i < n; i++) members[fill[groups[i]]++] = i;
+  const perm = new Int32Array(n);
+  let k = 0;
+  for (let t = 0; t < g; t++) {
+    const grp = groupOrder[t];
+    for (let p = start[grp]; p < start[grp + 1]; p++) perm[k++] = members[p];
+  }
+  return perm;
+}
+
 /** Orders and analyses the pattern (n diagonals + the builder's pairs). Returns the symbolic
  *  factor and the slot of every registered pair in the value array. */
-export function analyze(pattern: PatternBuilder): { sym: SymbolicFactor; pairSlot: Int32Array } {
+export function analyze(pattern: PatternBuilder, groups?: Int32Array): { sym: SymbolicFactor; pairSlot: Int32Array } {
   const n = pattern.n;
   const { rows, cols } = pattern;
-  const perm = minimumDegreeOrder(n, rows, cols);
+  const perm = groups ? groupedOrder(n, rows, cols, groups) : minimumDegreeOrder(n, rows, cols);
   const iperm = new Int32Array(n);
   for (let k = 0; k < n; k++) iperm[perm[k]] = k;
   // Count entries per permuted column of the upper triangle (row ≤ col).

@@ -146,4 +146,39 @@ describe("auto-size", () => {
     expect(badSystem.ok).toBe(false);
     if (!badSystem.ok) expect(badSystem.errors[0].path).toBe("units");
   });
+  it("never makes a metric run smaller than designed (no ampacity table to prove it safe)", () => {
+    const doc = cabin();
+    doc.runs[0].size = "35 mm2"; // oversized feeder with an 80 A fuse
+    const r = ok(autosize(doc, COSTS));
+    r.system.runs.forEach((run, i) => {
+      expect(SIZES.indexOf(run.size)).toBeGreaterThanOrEqual(SIZES.indexOf(doc.runs[i].size));
+    });
+    expect(r.messages.join(" ")).toMatch(/only makes them larger/);
+  });
+
+  it("downsizes oversized AWG runs, but never below what the fuse needs (NFPA 70 240.4(D) and Table 310.16)", () => {
+    const AWG = ["14 AWG", "12 AWG", "10 AWG", "8 AWG", "6 AWG", "4 AWG", "2 AWG", "1/0 AWG"];
+    const costs = { format: "runwright-costs/1", per: "ft", items: AWG.map((size, i) => ({ size, cost: 0.2 * 1.6 ** i })) };
+    const doc: SystemInput = {
+      format: "runwright-system/1",
+      units: "imperial",
+      nominalVoltage: 24,
+      points: [{ id: "bus" }, { id: "a" }, { id: "b" }],
+      sources: [{ id: "bank", type: "battery", point: "bus", voltage: 25.6, internalResistanceOhm: 0.005 }],
+      runs: [
+        // 30 A fuse: 12 AWG would be over its 20 A limit in 240.4(D), so 10 AWG is the floor.
+        { id: "fused", from: "bus", to: "a", length: 5, size: "1/0 AWG", fuseA: 30 },
+        { id: "plain", from: "bus", to: "b", length: 5, size: "1/0 AWG" },
+      ],
+      loads: [
+        { id: "la", point: "a", model: "constantCurrent", amps: 2 },
+        { id: "lb", point: "b", model: "constantCurrent", amps: 2 },
+      ],
+    };
+    const r = ok(autosize(doc, costs));
+    expect(r.passes).toBe(true);
+    expect(r.system.runs[0].size).toBe("10 AWG");
+    expect(r.system.runs[1].size).toBe("14 AWG");
+    expect(r.costDifference!).toBeLessThan(0);
+  });
 });

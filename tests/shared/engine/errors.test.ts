@@ -204,6 +204,16 @@ describe("error codes from solveSystem", () => {
     expect(r.errors[0].ids).toContain("pv");
   });
 
+  it("VOLTAGE_COLLAPSE: a constant-current load the cables cannot feed (it would sit at or below 0 V)", () => {
+    // 100 A through 2 × 10 m of 0.5 mm² (IEC 60228 class 5, 39.0 Ω/km at 20 °C): 78 V of drop from 12 V.
+    const d = doc();
+    d.runs[0].size = "0.5 mm2";
+    d.loads = [{ id: "lamp", point: "far", model: "constantCurrent", amps: 100 }];
+    const r = fails(solveSystem(d));
+    expect(r.errors[0].code).toBe("VOLTAGE_COLLAPSE");
+    expect(r.errors[0].ids).toEqual(["lamp"]);
+  });
+
   it("SHORTED_SOURCE: a 0 Ω constantResistance load at the point of an ideal source", () => {
     const d = doc();
     d.sources[0].internalResistanceOhm = 0;
