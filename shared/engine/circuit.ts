@@ -328,8 +328,9 @@ export function prepareCircuit(netlist: Netlist, options: PrepareOptions = {}): 
   };
 }
 
-function hasSourceLoop(_elements: CircuitElement[], kinds: Uint8Array, mergeAdj: number[][], p: number, q: number): boolean {
-  const path = mergePath(mergeAdj, p, q, _elements);
+/** Does the merge path between p and q (a loop being closed) pass through an ideal source? */
+function hasSourceLoop(elements: CircuitElement[], kinds: Uint8Array, mergeAdj: number[][], p: number, q: number): boolean {
+  const path = mergePath(mergeAdj, p, q, elements);
   return path.some((e) => kinds[e] === K_IDEAL);
 }
 
