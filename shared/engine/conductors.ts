@@ -104,7 +104,7 @@ export const IEC60228_SOURCE = "IEC 60228:2004 maximum DC resistance of plain co
 // Ampacity: NFPA 70 Table 310.16 (2023 edition; numbered 310.15(B)(16) in 2011–2017),
 // not more than three current-carrying conductors in raceway, cable or earth, 30 °C ambient,
 // columns 60 / 75 / 90 °C insulation. Copper 14 AWG – 4/0 transcribed from the table
-// (a published transcription of "NEC Table 310.15(B)(16)"; 75 °C column confirmed at passyourelectricianexam.com);
+// (a published reproduction of "NEC Table 310.15(B)(16)"; 75 °C column confirmed at passyourelectricianexam.com);
 // copper 250–500 kcmil and all aluminium figures are [M]. 2023 values: 3 AWG 90 °C = 115 and
 // 1 AWG 90 °C = 145 (older editions printed 110 and 150). 18 and 16 AWG are not in the table.
 export const AMPACITY_SOURCE = "NFPA 70 (2023) Table 310.16, 30 °C ambient, ≤ 3 current-carrying conductors";

@@ -297,7 +297,7 @@ describe("K constant = R(Ω/kft) × cmil / 1000 (method of electricianmath.com)"
 });
 
 describe("ampacity: NFPA 70 (2023) Table 310.16, copper, 30 °C, ≤ 3 current-carrying conductors", () => {
-  // Transcription "NEC Table 310.15(B)(16) (formerly 310.16)" (a published transcription); the 75 °C column is
+  // A published reproduction of "NEC Table 310.15(B)(16) (formerly 310.16)"; the 75 °C column is
   // confirmed at passyourelectricianexam.com. Pinned edition: 2023 (3 AWG 90 °C = 115, 1 AWG 90 °C = 145;
   // older tables printed 110 and 150; the edition of the change is [M]).
   const TABLE_310_16_CU: ReadonlyArray<readonly [string, number, number, number]> = [

@@ -3,7 +3,7 @@
 //  - IEC 60228:2004 max DC resistance at 20 °C, class 5 (etechnik-synergie.com, mycableengineering.com):
 //    2.5 mm2 7.98 Ω/km, 16 mm2 1.21 Ω/km.
 //  - NFPA 70 Chapter 9 Table 8 at 75 °C (electrical-design-tutor.com): 10 AWG Cu 1.24 Ω/kft.
-//  - NFPA 70 Table 310.16 (2023; a published transcription) and 240.4(D) (electricallicenserenewal.com).
+//  - NFPA 70 Table 310.16 (2023; a published reproduction) and 240.4(D) (electricallicenserenewal.com).
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { solveCircuit } from "../../../shared/engine/circuit.js";

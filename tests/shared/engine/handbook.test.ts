@@ -77,7 +77,7 @@ describe("handbook formula VD = 2·K·I·L / CM (tradelicenseprep.com worked exa
   }
 
   it("the run's ampacity is the 75 °C column of Table 310.16 (12 AWG 25 A, 8 AWG 50 A)", () => {
-    // NFPA 70 Table 310.16 (a published transcription; 75 °C column confirmed at passyourelectricianexam.com)
+    // NFPA 70 Table 310.16 (a published reproduction; 75 °C column confirmed at passyourelectricianexam.com)
     expect(solve("12 AWG").cases[0].runs[0].ampacityA).toBe(25);
     expect(solve("8 AWG").cases[0].runs[0].ampacityA).toBe(50);
     expect(solve("8 AWG").cases[0].runs[0].utilizationPercent).toBeCloseTo(40, 9);
