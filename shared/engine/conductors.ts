@@ -103,7 +103,7 @@ export const IEC60228_SOURCE = "IEC 60228:2004 maximum DC resistance of plain co
 
 // Ampacity: NFPA 70 Table 310.16 (2023 edition; numbered 310.15(B)(16) in 2011–2017),
 // not more than three current-carrying conductors in raceway, cable or earth, 30 °C ambient,
-// columns 60 / 75 / 90 °C insulation. Copper 14 AWG – 4/0 transcribed from the table
+// columns 60 / 75 / 90 °C insulation. Copper 14 AWG – 4/0 copied from the table
 // (a published reproduction of "NEC Table 310.15(B)(16)"; 75 °C column confirmed at passyourelectricianexam.com);
 // copper 250–500 kcmil and all aluminium figures are [M]. 2023 values: 3 AWG 90 °C = 115 and
 // 1 AWG 90 °C = 145 (older editions printed 110 and 150). 18 and 16 AWG are not in the table.
@@ -268,5 +268,5 @@ export function smallConductorFuseLimit(label: string, material: Material): numb
   return SMALL_CONDUCTOR_LIMIT[material][label];
 }
 
-/** Exposed for the table tests: the raw rows exactly as transcribed. */
+/** Exposed for the table tests: the raw rows exactly as copied from the tables. */
 export const RAW_TABLES = { AWG_TABLE, METRIC_TABLE, AMPACITY, SMALL_CONDUCTOR_LIMIT };
