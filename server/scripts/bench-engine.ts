@@ -38,6 +38,7 @@ import { pathToFileURL } from "node:url";
 import { autosize } from "../../shared/engine/autosize.js";
 import type { SystemInput } from "../../shared/engine/schema.js";
 import { compileSystem, parseSystem, solveCompiled, solveSystem, type CompiledSystem, type SolveSuccess } from "../../shared/engine/system.js";
+import { mulberry32 as rng } from "../../tests/support/random-systems.js";
 import { projectRoot } from "./project-root.js";
 
 const SLOW = process.argv.includes("--slow");
@@ -50,18 +51,6 @@ const CLI_BUNDLE = path.join(projectRoot, "node_modules", ".cache", "runwright",
 
 // ---------------------------------------------------------------------------------------------
 // Generated networks
-
-/** Small deterministic generator (mulberry32), so every run builds the same networks. */
-function rng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 type Point = SystemInput["points"][number];
 type Run = SystemInput["runs"][number];
