@@ -5,9 +5,21 @@ import helmet from "helmet";
 import { pino, type Logger } from "pino";
 import { pinoHttp } from "pino-http";
 import type { DataSource } from "typeorm";
+import { randomBytes } from "node:crypto";
 import { MAX_JSON_BODY_BYTES } from "../shared/limits.js";
+import { resolveAuth } from "./auth/context.js";
+import { createPassport } from "./auth/passport.js";
+import { sessionMiddleware } from "./auth/session.js";
+import { unconfiguredMailer, type Mailer } from "./mail/mailer.js";
+import { csrfGuard } from "./middleware/csrf.js";
 import { apiNotFound, errorHandler } from "./middleware/error-handler.js";
+import { AUTH_RATE_LIMIT, type RateLimitSettings } from "./middleware/rate-limit.js";
+import { authRoutes } from "./routes/auth.routes.js";
+import { companyRoutes } from "./routes/company.routes.js";
+import type { AccountDeps } from "./routes/deps.js";
 import { healthRoutes } from "./routes/health.routes.js";
+import { invitationRoutes } from "./routes/invitations.routes.js";
+import { memberRoutes } from "./routes/members.routes.js";
 
 export interface AppOptions {
   db: DataSource;
@@ -16,10 +28,21 @@ export interface AppOptions {
   logger?: Logger;
   /** How long /api/health waits for the database (ms). */
   dbTimeoutMs?: number;
+  /** Signs the session cookie; a random one per app when absent (sessions then end with the process). */
+  sessionSecret?: string;
+  cookieSecure?: "auto" | "true" | "false";
+  /** Base of links in e-mails (no trailing slash). */
+  publicUrl?: string;
+  mailer?: Mailer;
+  /** Sign-in and reset limits; 10 per 15 minutes unless a test needs more room. */
+  authRateLimit?: RateLimitSettings;
+  /** Delete expired sessions periodically (the running server does). */
+  pruneSessions?: boolean;
 }
 
 /** Builds the Express app. No side effects: it neither listens nor connects. */
-export function createApp({ db, clientDir, logger = pino({ level: "silent" }), dbTimeoutMs = 5000 }: AppOptions): Express {
+export function createApp(options: AppOptions): Express {
+  const { db, clientDir, logger = pino({ level: "silent" }), dbTimeoutMs = 5000 } = options;
   const app = express();
   app.disable("x-powered-by");
   app.set("trust proxy", "loopback");
@@ -53,9 +76,34 @@ export function createApp({ db, clientDir, logger = pino({ level: "silent" }), d
     }),
   );
 
+  const deps: AccountDeps = {
+    db,
+    mailer: options.mailer ?? unconfiguredMailer,
+    publicUrl: options.publicUrl ?? "http://127.0.0.1:3000",
+    logger,
+    rateLimit: options.authRateLimit ?? AUTH_RATE_LIMIT,
+  };
+  const passport = createPassport(db);
+
   const api = express.Router();
   api.use(express.json({ limit: MAX_JSON_BODY_BYTES }));
   api.use(healthRoutes(db, dbTimeoutMs));
+  api.use(csrfGuard);
+  api.use(
+    sessionMiddleware(db, {
+      secret: options.sessionSecret ?? randomBytes(32).toString("base64url"),
+      cookieSecure: options.cookieSecure ?? "auto",
+      pruneExpired: options.pruneSessions ?? false,
+      logger,
+    }),
+  );
+  api.use(passport.initialize());
+  api.use(passport.session());
+  api.use(resolveAuth(db));
+  api.use("/auth", authRoutes({ ...deps, passport }));
+  api.use("/company", companyRoutes(deps));
+  api.use("/members", memberRoutes(deps));
+  api.use("/invitations", invitationRoutes(deps));
   api.use(apiNotFound);
   app.use("/api", api);
 

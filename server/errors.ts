@@ -8,6 +8,7 @@ export const HTTP_STATUS: Record<ApiErrorCode, number> = {
   forbidden: 403,
   not_found: 404,
   conflict: 409,
+  gone: 410,
   payload_too_large: 413,
   unsupported_media_type: 415,
   unprocessable: 422,

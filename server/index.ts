@@ -2,7 +2,9 @@ import type { Server } from "node:http";
 import { pino } from "pino";
 import type { DataSource } from "typeorm";
 import { createApp } from "./app.js";
-import type { Env } from "./config/env.js";
+import { publicUrl, type Env } from "./config/env.js";
+import { resolveSessionSecret } from "./config/session-secret.js";
+import { createMailer, smtpSettingsFromEnv } from "./mail/mailer.js";
 import { createDataSource } from "./db/data-source.js";
 import { seedDemo } from "./db/seed.js";
 import { closeServer, listen } from "./http-server.js";
@@ -13,6 +15,10 @@ export interface StartOptions {
   clientDir?: string;
   /** Seed the demo company (npm start does; a production deployment would not). */
   seed?: boolean;
+  /** The data folder (keeps the development session secret). */
+  dataDir: string;
+  /** SMTP port of the local mail catcher, when SMTP_HOST is unset. */
+  mailCatcherPort?: number;
 }
 
 export interface RunningServer {
@@ -24,15 +30,28 @@ export interface RunningServer {
 }
 
 /** Connects, migrates, seeds, builds the app and listens: the server's only side effects. */
-export async function startServer({ env, databaseUrl, clientDir, seed = true }: StartOptions): Promise<RunningServer> {
+export async function startServer({ env, databaseUrl, clientDir, seed = true, dataDir, mailCatcherPort }: StartOptions): Promise<RunningServer> {
   const logger = pino({ level: env.LOG_LEVEL });
+  // Before anything connects: production refuses to start without SESSION_SECRET.
+  const sessionSecret = resolveSessionSecret(env, dataDir);
+  const mailer = createMailer(smtpSettingsFromEnv(env, mailCatcherPort));
   const db = createDataSource({ url: databaseUrl, connectTimeoutMs: env.DB_CONNECT_TIMEOUT_MS });
   await db.initialize();
   try {
     const ran = await db.runMigrations({ transaction: "all" });
     if (ran.length > 0) logger.info({ migrations: ran.map((m) => m.name) }, "migrations ran");
     if (seed) await seedDemo(db);
-    const app = createApp({ db, clientDir, logger, dbTimeoutMs: env.DB_CONNECT_TIMEOUT_MS });
+    const app = createApp({
+      db,
+      clientDir,
+      logger,
+      dbTimeoutMs: env.DB_CONNECT_TIMEOUT_MS,
+      sessionSecret,
+      cookieSecure: env.COOKIE_SECURE,
+      publicUrl: publicUrl(env),
+      mailer,
+      pruneSessions: true,
+    });
     const server = await listen(app, env.HOST, env.PORT);
     return {
       server,
@@ -40,10 +59,12 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true }: 
       url: `http://${env.HOST}:${env.PORT}`,
       async stop() {
         await closeServer(server);
+        mailer.close();
         await db.destroy();
       },
     };
   } catch (error) {
+    mailer.close();
     await db.destroy();
     throw error;
   }

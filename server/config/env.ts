@@ -15,6 +15,22 @@ const EnvSchema = z.object({
   LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
   /** Milliseconds a database call may wait for a connection before the request answers 503. */
   DB_CONNECT_TIMEOUT_MS: z.coerce.number().int().min(100).max(60000).default(5000),
+  /** Signs the session cookie. Required in production; in development a random one is kept in the data folder. */
+  SESSION_SECRET: z.string().min(32, "must be at least 32 characters").optional(),
+  /** `auto`: the cookie is Secure when the request came over HTTPS (directly or through a proxy on loopback). */
+  COOKIE_SECURE: z.enum(["auto", "true", "false"]).default("auto"),
+  /** The address people open, used in e-mailed links; defaults to http://HOST:PORT. */
+  PUBLIC_URL: z.string().url().optional(),
+  /** An SMTP server for outgoing mail; when unset, npm start runs the local mail catcher and sends to it. */
+  SMTP_HOST: z.string().min(1).optional(),
+  SMTP_PORT: port.optional(),
+  SMTP_SECURE: z.enum(["true", "false"]).default("false"),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  MAIL_FROM: z.string().min(3).default("Runwright <no-reply@runwright.test>"),
+  /** Ports of the local mail catcher (SMTP in, web inbox) that npm start runs when SMTP_HOST is unset. */
+  RUNWRIGHT_MAIL_SMTP_PORT: port.default(1025),
+  RUNWRIGHT_MAIL_WEB_PORT: port.default(1080),
 });
 
 export type Env = z.infer<typeof EnvSchema>;
@@ -29,6 +45,11 @@ export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
     throw new Error(`Invalid environment: ${problems.join("; ")}`);
   }
   return parsed.data;
+}
+
+/** The base of links in e-mails, without a trailing slash. */
+export function publicUrl(env: Env): string {
+  return (env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`).replace(/\/+$/, "");
 }
 
 /** Absolute path of the project's data folder (database cluster, later uploads). */

@@ -1,13 +1,14 @@
 // Plain JavaScript on purpose: this runs before any dependency is installed.
 import { spawnSync } from "node:child_process";
-import { existsSync } from "node:fs";
+import { existsSync, statSync } from "node:fs";
 import path from "node:path";
 
 const root = path.resolve(import.meta.dirname, "..", "..");
 
-/** Runs `npm ci` when node_modules is missing or was never completed. */
+/** Runs `npm ci` when node_modules is missing, was never completed, or is older than package-lock.json (after a pull). */
 export function ensureDependencies() {
-  if (existsSync(path.join(root, "node_modules", ".package-lock.json"))) return;
+  const installed = path.join(root, "node_modules", ".package-lock.json");
+  if (existsSync(installed) && statSync(installed).mtimeMs >= statSync(path.join(root, "package-lock.json")).mtimeMs) return;
   console.log("Installing dependencies (npm ci)…");
   const npm = process.platform === "win32" ? "npm.cmd" : "npm";
   const result = spawnSync(npm, ["ci", "--no-audit", "--no-fund"], { cwd: root, stdio: "inherit" });

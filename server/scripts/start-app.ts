@@ -1,5 +1,7 @@
 import path from "node:path";
-import { readEnv } from "../config/env.js";
+import { dataDirectory, readEnv } from "../config/env.js";
+import { resolveSessionSecret } from "../config/session-secret.js";
+import { startMailCatcher, type MailCatcher } from "../mail/catcher.js";
 import { startServer, type RunningServer } from "../index.js";
 import { buildClient } from "./build-client.js";
 import { openDevDatabase } from "./dev-database.js";
@@ -9,6 +11,7 @@ import { exitWithStartupError, StartupError } from "./startup-error.js";
 import type { LocalPostgres } from "./postgres.js";
 
 let cluster: LocalPostgres | undefined;
+let catcher: MailCatcher | undefined;
 let running: RunningServer | undefined;
 
 async function main(): Promise<void> {
@@ -17,12 +20,18 @@ async function main(): Promise<void> {
   if (!(await isPortFree(env.HOST, env.PORT))) {
     throw new StartupError(`Port ${env.PORT} on ${env.HOST} is already in use (is Runwright already running?); set PORT to another port.`);
   }
+  // Production without SESSION_SECRET stops here, before anything starts.
+  resolveSessionSecret(env, dataDirectory(env, projectRoot));
   const database = await openDevDatabase(env);
   cluster = database.cluster;
+  if (!env.SMTP_HOST) {
+    catcher = await startMailCatcher(env.RUNWRIGHT_MAIL_SMTP_PORT, env.RUNWRIGHT_MAIL_WEB_PORT);
+    console.log(`Mail goes to the local catcher: SMTP on 127.0.0.1:${catcher.smtpPort}, inbox at ${catcher.webUrl}/`);
+  }
   const clientDir = path.join(projectRoot, "dist", "client");
   console.log("Building the client…");
   await buildClient(clientDir);
-  running = await startServer({ env, databaseUrl: database.url, clientDir });
+  running = await startServer({ env, databaseUrl: database.url, clientDir, dataDir: dataDirectory(env, projectRoot), mailCatcherPort: catcher?.smtpPort });
   console.log(`Runwright is running at ${running.url}/ — press Ctrl-C to stop.`);
 }
 
@@ -32,6 +41,7 @@ async function shutdown(signal: string): Promise<void> {
   stopping = true;
   console.log(`\n${signal}: stopping Runwright…`);
   await running?.stop().catch(() => {});
+  await catcher?.stop().catch(() => {});
   cluster?.stop();
   process.exit(0);
 }
@@ -39,7 +49,8 @@ async function shutdown(signal: string): Promise<void> {
 process.once("SIGINT", () => void shutdown("SIGINT"));
 process.once("SIGTERM", () => void shutdown("SIGTERM"));
 
-main().catch((error) => {
+main().catch(async (error) => {
+  await catcher?.stop().catch(() => {});
   cluster?.stop();
   exitWithStartupError(error);
 });

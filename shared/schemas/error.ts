@@ -8,6 +8,7 @@ export const API_ERROR_CODES = [
   "forbidden",
   "not_found",
   "conflict",
+  "gone",
   "payload_too_large",
   "unsupported_media_type",
   "unprocessable",

@@ -1,5 +1,5 @@
 import { spawn } from "node:child_process";
-import { chmodSync, mkdtempSync, rmSync } from "node:fs";
+import { chmodSync, existsSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
 import net from "node:net";
 import os from "node:os";
 import path from "node:path";
@@ -44,18 +44,27 @@ describe("npm start", () => {
     const port = await findFreePort();
     const dbPort = await findFreePort();
     const dataDir = path.join(tmp, "data");
+    const smtpPort = await findFreePort();
+    const webPort = await findFreePort();
     let health: unknown;
+    let inbox = 0;
     let page = "";
-    const run = await startCommand({ PORT: String(port), RUNWRIGHT_DB_PORT: String(dbPort), RUNWRIGHT_DATA_DIR: dataDir }, (line, kill) => {
+    const env = { PORT: String(port), RUNWRIGHT_DB_PORT: String(dbPort), RUNWRIGHT_DATA_DIR: dataDir, RUNWRIGHT_MAIL_SMTP_PORT: String(smtpPort), RUNWRIGHT_MAIL_WEB_PORT: String(webPort) };
+    const run = await startCommand(env, (line, kill) => {
       if (!line.startsWith("Runwright is running at")) return;
       void (async () => {
         health = await (await fetch(`http://127.0.0.1:${port}/api/health`)).json();
+        inbox = (await fetch(`http://127.0.0.1:${webPort}/api/healthz`)).status;
         page = await (await fetch(`http://127.0.0.1:${port}/price-list`)).text();
         kill();
       })();
     });
     expect(run.stdout).toContain(`Runwright is running at http://127.0.0.1:${port}/`);
+    expect(run.stdout).toContain(`Mail goes to the local catcher: SMTP on 127.0.0.1:${smtpPort}, inbox at http://127.0.0.1:${webPort}/`);
+    expect(inbox).toBe(200);
     expect(health).toMatchObject({ status: "ok", db: "up" });
+    // The development session secret was made and kept in the data folder.
+    expect(readFileSync(path.join(dataDir, "session-secret"), "utf8").trim().length).toBeGreaterThanOrEqual(32);
     expect(page).toContain('<div id="root"></div>');
     expect(run.code).toBe(0);
     // The database it started is stopped again.
@@ -89,6 +98,13 @@ describe("npm start", () => {
     expect(run.stderr.trim()).toBe(
       "runwright: PG_BIN_DIR is /nonexistent/postgresql/bin, which holds no pg_ctl; point it at PostgreSQL's server binaries or unset it.",
     );
+  });
+
+  it("refuses to start in production without SESSION_SECRET, in one line", async () => {
+    const run = await startCommand({ NODE_ENV: "production", PORT: String(await findFreePort()), RUNWRIGHT_DATA_DIR: path.join(tmp, "prod") });
+    expect(run.code).toBe(1);
+    expect(run.stderr.trim()).toMatch(/^runwright: SESSION_SECRET is not set; production needs a random secret of at least 32 characters/);
+    expect(existsSync(path.join(tmp, "prod", "postgres"))).toBe(false);
   });
 
   it("names the variable when the environment is wrong", async () => {

@@ -4,18 +4,22 @@ import path from "node:path";
 import type {} from "vitest";
 import type { TestProject } from "vitest/node";
 import { createDataSource } from "../../server/db/data-source.js";
+import { startMailCatcher } from "../../server/mail/catcher.js";
 import { buildClient } from "../../server/scripts/build-client.js";
+import { findFreePort } from "../../server/scripts/port-check.js";
 import { testDatabaseUrl } from "./test-db.js";
 
 declare module "vitest" {
   export interface ProvidedContext {
     /** The client, built once for the run (vite build output). */
     clientDir: string;
+    /** The run's local SMTP catcher: send to smtpPort, read back through webPort's REST API. */
+    mailCatcher: { smtpPort: number; webPort: number };
   }
 }
 
-// Once per run: migrate the test database, build the client.
-export default async function setup(project: TestProject): Promise<void> {
+// Once per run: migrate the test database, start the mail catcher, build the client.
+export default async function setup(project: TestProject): Promise<() => Promise<void>> {
   const db = createDataSource({ url: testDatabaseUrl() });
   await db.initialize();
   await db.runMigrations({ transaction: "all" });
@@ -25,4 +29,8 @@ export default async function setup(project: TestProject): Promise<void> {
   const clientDir = path.join(base, "client");
   await buildClient(clientDir);
   project.provide("clientDir", clientDir);
+
+  const catcher = await startMailCatcher(await findFreePort(), await findFreePort());
+  project.provide("mailCatcher", { smtpPort: catcher.smtpPort, webPort: catcher.webPort });
+  return () => catcher.stop();
 }

@@ -1,6 +1,7 @@
 import { CreateCompany1796164474353 } from "./1796164474353-create-company.js";
+import { CreateAccounts1796173602296 } from "./1796173602296-create-accounts.js";
 
 // Every migration, oldest first. Listed as classes rather than a file glob so
 // the same list loads under tsx, vitest and plain node; a test checks that
 // every file in this folder is listed. Add each new migration here.
-export const migrations = [CreateCompany1796164474353];
+export const migrations = [CreateCompany1796164474353, CreateAccounts1796173602296];

@@ -1,0 +1,62 @@
+import connectPgSimple from "connect-pg-simple";
+import type { RequestHandler } from "express";
+import session from "express-session";
+import type { Logger } from "pino";
+import type pg from "pg";
+import type { DataSource } from "typeorm";
+
+export const SESSION_COOKIE = "runwright.sid";
+/** Created by the create-accounts migration, never at run time. */
+export const SESSION_TABLE = "user_session";
+const TWO_WEEKS_MS = 14 * 24 * 60 * 60 * 1000;
+
+export interface SessionSettings {
+  secret: string;
+  /** `auto` sets Secure when the request arrived over HTTPS. */
+  cookieSecure: "auto" | "true" | "false";
+  /** Delete expired sessions every 15 minutes (the running server does; tests need not). */
+  pruneExpired?: boolean;
+  logger: Logger;
+}
+
+/** The pg pool under TypeORM's DataSource, shared with the session store. */
+export function poolOf(db: DataSource): pg.Pool {
+  const pool = (db.driver as unknown as { master?: pg.Pool }).master;
+  if (!pool) throw new Error("The DataSource is not initialized: no pool to keep sessions in");
+  return pool;
+}
+
+/** express-session with its rows in PostgreSQL (connect-pg-simple). */
+export function sessionMiddleware(db: DataSource, settings: SessionSettings): RequestHandler {
+  const PgStore = connectPgSimple(session);
+  const store = new PgStore({
+    pool: poolOf(db),
+    tableName: SESSION_TABLE,
+    createTableIfMissing: false,
+    pruneSessionInterval: settings.pruneExpired ? 15 * 60 : false,
+    errorLog: (...args: unknown[]) => settings.logger.error({ args }, "session store error"),
+  });
+  return session({
+    name: SESSION_COOKIE,
+    secret: settings.secret,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    cookie: {
+      httpOnly: true,
+      sameSite: "lax",
+      secure: settings.cookieSecure === "auto" ? "auto" : settings.cookieSecure === "true",
+      maxAge: TWO_WEEKS_MS,
+      path: "/",
+    },
+  });
+}
+
+/** Ends every session of a user except the one with id `keepSid` (after a password reset). */
+export async function endOtherSessions(db: DataSource, userId: string, keepSid?: string): Promise<number> {
+  const result = await poolOf(db).query(`DELETE FROM "${SESSION_TABLE}" WHERE "sess" -> 'passport' ->> 'user' = $1 AND "sid" <> $2`, [
+    userId,
+    keepSid ?? "",
+  ]);
+  return result.rowCount ?? 0;
+}

@@ -1,0 +1,22 @@
+import type { Role } from "./schemas/role.js";
+
+/**
+ * What each role may do. The server guards every route with one of these
+ * (`can("members:write")`); the client reads the same table to hide what a
+ * role cannot use. Installers are read-only; Estimators run jobs but do not
+ * administer the team or the company.
+ */
+export const PERMISSIONS = {
+  "company:read": ["owner", "estimator", "installer"],
+  "company:write": ["owner"],
+  "members:read": ["owner", "estimator", "installer"],
+  "members:write": ["owner"],
+  "invitations:read": ["owner"],
+  "invitations:write": ["owner"],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Permission = keyof typeof PERMISSIONS;
+
+export function roleCan(role: Role, permission: Permission): boolean {
+  return (PERMISSIONS[permission] as readonly Role[]).includes(role);
+}

@@ -1,0 +1,82 @@
+import type { DataSource } from "typeorm";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { listRoutes } from "../../../server/routes/route-table.js";
+import { companyFixture, companySnapshot, type CompanyFixture } from "../../support/fixtures.js";
+import { startTestApp, type TestApp } from "../../support/app.js";
+import { openTestDb } from "../../support/test-db.js";
+
+// For each route parameter, which of company A's resources to aim at. A new
+// route with a new parameter fails the sweep until it is added here.
+const TARGETS: Record<string, (a: CompanyFixture) => string> = {
+  userId: (a) => a.spare.userId,
+  id: (a) => a.invitationId,
+};
+
+// A valid body for routes that read one, so the answer is about the id and not the input.
+const BODIES: Record<string, unknown> = {
+  "PATCH /api/members/:userId": { role: "installer" },
+};
+
+describe("tenancy sweep: a member of company B never reaches company A's resources", () => {
+  let db: DataSource;
+  let app: TestApp;
+  let a: CompanyFixture;
+  let b: CompanyFixture;
+
+  beforeAll(async () => {
+    db = await openTestDb();
+    app = await startTestApp(db);
+    a = await companyFixture(db, app);
+    b = await companyFixture(db, app);
+  });
+  afterAll(async () => {
+    await app?.close();
+    await db?.destroy();
+  });
+
+  it("finds the routes that take a resource id from Express's router", () => {
+    const withIds = listRoutes(app.app).filter((r) => r.path.startsWith("/api") && r.params.length > 0);
+    expect(withIds.map((r) => `${r.method} ${r.path}`)).toEqual(
+      expect.arrayContaining(["PATCH /api/members/:userId", "DELETE /api/members/:userId", "DELETE /api/invitations/:id"]),
+    );
+  });
+
+  it("answers 404 to B's Owner for every one of them, and changes nothing of A's", async () => {
+    const routes = listRoutes(app.app).filter((r) => r.path.startsWith("/api") && r.params.length > 0);
+    const before = await companySnapshot(db, a.companyId);
+    for (const route of routes) {
+      let path = route.path;
+      for (const param of route.params) {
+        const target = TARGETS[param];
+        expect(target, `no target for :${param} of ${route.method} ${route.path}; add it to TARGETS`).toBeDefined();
+        path = path.replace(`:${param}`, target(a));
+      }
+      // B's Owner has every permission, so only tenancy can refuse.
+      const response = await b.owner.api.call(route.method, path, BODIES[`${route.method} ${route.path}`]);
+      expect(response.status, `${route.method} ${path}`).toBe(404);
+      expect(response.body.error.code).toBe("not_found");
+    }
+    expect(await companySnapshot(db, a.companyId)).toEqual(before);
+  });
+
+  it("the same routes reach B's own resources, so the 404s above are about tenancy", async () => {
+    const own = await b.owner.api.patch(`/api/members/${b.spare.userId}`, { role: "installer" });
+    expect(own.status).toBe(200);
+    expect((await b.owner.api.delete(`/api/invitations/${b.invitationId}`)).status).toBe(204);
+  });
+
+  it("ids that arrive in a body are checked too: B cannot switch into A", async () => {
+    const response = await b.owner.api.post("/api/auth/switch-company", { companyId: a.companyId });
+    expect(response.status).toBe(404);
+    expect((await b.owner.api.get("/api/auth/session")).body.company.id).toBe(b.companyId);
+  });
+
+  it("every list answers only the session's company", async () => {
+    const members = await b.owner.api.get("/api/members");
+    const aIds = [a.owner.userId, a.estimator.userId, a.installer.userId, a.spare.userId];
+    expect(members.body.members.map((m: { userId: string }) => m.userId).filter((id: string) => aIds.includes(id))).toEqual([]);
+    const invitations = await b.owner.api.get("/api/invitations");
+    expect(invitations.body.invitations.map((i: { id: string }) => i.id)).not.toContain(a.invitationId);
+    expect((await b.owner.api.get("/api/company")).body.id).toBe(b.companyId);
+  });
+});

@@ -1,0 +1,40 @@
+import { createServer, type Server } from "node:http";
+import type { AddressInfo } from "node:net";
+import type { Express } from "express";
+import type { DataSource } from "typeorm";
+import { createApp, type AppOptions } from "../../server/app.js";
+import type { RateLimitSettings } from "../../server/middleware/rate-limit.js";
+import { catcherMailer } from "./mail.js";
+
+export interface TestApp {
+  app: Express;
+  /** http://127.0.0.1:<port> — also the base of links in the app's e-mails. */
+  url: string;
+  close(): Promise<void>;
+}
+
+/** Room for the many sign-ins of a test file; the rate-limit tests use the real limit. */
+export const ROOMY_RATE_LIMIT: RateLimitSettings = { limit: 10_000, windowMs: 60_000 };
+
+/**
+ * The app on an ephemeral loopback port, sending mail to the run's catcher.
+ * The port is bound first, so the app's e-mailed links point at it.
+ */
+export async function startTestApp(db: DataSource, options: Partial<AppOptions> = {}): Promise<TestApp> {
+  const server: Server = createServer();
+  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
+  const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const mailer = catcherMailer();
+  const app = createApp({ db, publicUrl: url, mailer, authRateLimit: ROOMY_RATE_LIMIT, ...options });
+  server.on("request", app);
+  return {
+    app,
+    url,
+    close: () =>
+      new Promise((resolve) => {
+        mailer.close();
+        server.closeAllConnections();
+        server.close(() => resolve());
+      }),
+  };
+}

@@ -1,0 +1,48 @@
+import type { DataSource } from "typeorm";
+import { expect } from "vitest";
+import { ApiClient } from "./api.js";
+import { addMember, signUpCompany, uniqueEmail, type SignedInOwner } from "./accounts.js";
+import type { TestApp } from "./app.js";
+import { waitForMail } from "./mail.js";
+
+/** A company with one person of each role, a spare member to act on, and a pending invitation. */
+export interface CompanyFixture {
+  companyId: string;
+  owner: SignedInOwner;
+  estimator: SignedInOwner;
+  installer: SignedInOwner;
+  /** A member (estimator) for routes that act on a member. */
+  spare: SignedInOwner;
+  invitationId: string;
+  anonymous: ApiClient;
+}
+
+export async function companyFixture(db: DataSource, app: TestApp): Promise<CompanyFixture> {
+  const owner = await signUpCompany(app);
+  const [estimator, installer, spare] = [
+    await addMember(db, app, owner.companyId, "estimator", "Esme Estimator"),
+    await addMember(db, app, owner.companyId, "installer", "Ivo Installer"),
+    await addMember(db, app, owner.companyId, "estimator", "Spare Member"),
+  ];
+  const email = uniqueEmail("pending");
+  const invited = await owner.api.post("/api/invitations", { email, role: "installer" });
+  expect(invited.status).toBe(201);
+  await waitForMail(email);
+  return { companyId: owner.companyId, owner, estimator, installer, spare, invitationId: invited.body.id, anonymous: new ApiClient(app.app) };
+}
+
+/**
+ * Every row that belongs to a company: the company row itself and the rows
+ * of every table with a company_id column (found from the catalogue, so new
+ * tables are included without touching this).
+ */
+export async function companySnapshot(db: DataSource, companyId: string): Promise<Record<string, unknown[]>> {
+  const tables: Array<{ table_name: string }> = await db.query(
+    `SELECT table_name FROM information_schema.columns WHERE table_schema = 'public' AND column_name = 'company_id' ORDER BY table_name`,
+  );
+  const snapshot: Record<string, unknown[]> = { company: await db.query(`SELECT * FROM company WHERE id = $1`, [companyId]) };
+  for (const { table_name } of tables) {
+    snapshot[table_name] = await db.query(`SELECT * FROM "${table_name}" WHERE company_id = $1 ORDER BY 1, 2`, [companyId]);
+  }
+  return snapshot;
+}
