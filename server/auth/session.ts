@@ -30,7 +30,8 @@ export function poolOf(db: DataSource): pg.Pool {
 export function sessionMiddleware(db: DataSource, settings: SessionSettings): RequestHandler {
   const PgStore = connectPgSimple(session);
   const store = new PgStore({
-    pool: poolOf(db),
+    // Looked up on every query: the pool exists only once the DataSource is initialized, and a new one after a reconnect.
+    pool: { query: (text: string, params?: unknown[]) => poolOf(db).query(text, params) } as unknown as pg.Pool,
     tableName: SESSION_TABLE,
     createTableIfMissing: false,
     pruneSessionInterval: settings.pruneExpired ? 15 * 60 : false,

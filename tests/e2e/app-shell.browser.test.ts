@@ -3,21 +3,31 @@ import path from "node:path";
 import type { BrowserContext } from "playwright-core";
 import type { DataSource } from "typeorm";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { createApp } from "../../server/app.js";
+import { signUpCompany, TEST_PASSWORD } from "../support/accounts.js";
+import { startTestApp, type TestApp } from "../support/app.js";
 import { artifactsDir, closeBrowser, hasChromium, launchBrowser, watchPage } from "../support/browser.js";
-import { serveOnLoopback } from "../support/server.js";
 import { openTestDb } from "../support/test-db.js";
 
 describe.skipIf(!hasChromium)("the app shell in headless Chromium", () => {
   let db: DataSource;
-  let server: { url: string; close: () => Promise<void> };
+  let server: TestApp;
   let browser: BrowserContext;
+  let email: string;
   const shots = artifactsDir("app-shell");
 
   beforeAll(async () => {
     db = await openTestDb();
-    server = await serveOnLoopback(createApp({ db, clientDir: inject("clientDir") }));
+    server = await startTestApp(db, { clientDir: inject("clientDir") });
+    email = (await signUpCompany(server, "Shell Test Co")).email;
     browser = await launchBrowser();
+    // Sign in once; the session cookie serves every test of this file.
+    const page = await browser.newPage();
+    await page.goto(`${server.url}/sign-in`);
+    await page.getByLabel("E-mail").fill(email);
+    await page.getByLabel("Password").fill(TEST_PASSWORD);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.getByRole("heading", { level: 1, name: "Dashboard" }).waitFor();
+    await page.close();
   });
   afterAll(async () => {
     await closeBrowser(browser);
@@ -37,7 +47,8 @@ describe.skipIf(!hasChromium)("the app shell in headless Chromium", () => {
       ["Jobs", "No jobs yet"],
       ["Clients", "No clients yet"],
       ["Price list", "Your price list is empty"],
-      ["Settings", "No company settings to show"],
+      ["Team", "Invite someone"],
+      ["Settings", "Company"],
     ];
     for (const [link, emptyTitle] of screens) {
       await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: link }).click();
@@ -64,6 +75,24 @@ describe.skipIf(!hasChromium)("the app shell in headless Chromium", () => {
     await page.getByRole("link", { name: "Go to the dashboard" }).click();
     await page.getByRole("heading", { name: "Dashboard" }).waitFor();
     expect(watch.problems).toEqual([]);
+  });
+
+  it("sends a signed-out visitor to sign in, and back to the page afterwards", async () => {
+    const other = await launchBrowser();
+    try {
+      const page = await other.newPage();
+      const watch = watchPage(page, server.url);
+      await page.goto(`${server.url}/clients`);
+      await page.waitForURL(/\/sign-in\?next=%2Fclients$/);
+      await page.getByLabel("E-mail").fill(email);
+      await page.getByLabel("Password").fill(TEST_PASSWORD);
+      await page.keyboard.press("Enter");
+      await page.getByRole("heading", { name: "No clients yet" }).waitFor();
+      expect(new URL(page.url()).pathname).toBe("/clients");
+      expect(watch.problems).toEqual([]);
+    } finally {
+      await closeBrowser(other);
+    }
   });
 
   it("can be driven by keyboard: the skip link lands on the content", async () => {

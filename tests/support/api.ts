@@ -22,7 +22,8 @@ export type ApiResponse = request.Response;
 export class ApiClient {
   readonly agent: ReturnType<typeof request.agent>;
   constructor(
-    readonly app: Express,
+    /** The app (supertest serves it on its own ephemeral port per request) or the URL of a running server. */
+    readonly app: Express | string,
     private readonly headers: Record<string, string> = {},
   ) {
     this.agent = request.agent(app);
