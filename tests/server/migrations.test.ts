@@ -1,8 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { DataSource } from "typeorm";
 import { createDataSource } from "../../server/db/data-source.js";
-import { DEMO_COMPANY_ID, DEMO_COMPANY_NAME, seedDemo } from "../../server/db/seed.js";
-import { Company } from "../../server/db/entities/index.js";
+import { verifyPassword } from "../../server/auth/passwords.js";
+import { DEMO_COMPANY_ID, DEMO_COMPANY_NAME, DEMO_PASSWORD, DEMO_USERS, seedDemo } from "../../server/db/seed.js";
+import { Company, Membership, User } from "../../server/db/entities/index.js";
 import { createEmptyDatabase } from "../support/test-db.js";
 
 async function tableNames(db: DataSource): Promise<string[]> {
@@ -50,6 +51,14 @@ describe("migrations on an empty database", () => {
     const companies = await db.getRepository(Company).findBy({ id: DEMO_COMPANY_ID });
     expect(companies).toHaveLength(1);
     expect(companies[0].name).toBe(DEMO_COMPANY_NAME);
+  });
+
+  it("seeds an Owner, an Estimator and an Installer who sign in with the demo password", async () => {
+    const members = await db.getRepository(Membership).find({ where: { companyId: DEMO_COMPANY_ID }, relations: { user: true } });
+    expect(members.map((m) => [m.user.email, m.role]).sort()).toEqual(DEMO_USERS.map((u) => [u.email, u.role]).sort());
+    expect(new Set(members.map((m) => m.role))).toEqual(new Set(["owner", "estimator", "installer"]));
+    for (const member of members) expect(await verifyPassword(member.user.passwordHash, DEMO_PASSWORD)).toBe(true);
+    expect(await db.getRepository(User).countBy(DEMO_USERS.map((u) => ({ email: u.email })))).toBe(3);
   });
 
   it("reverts every migration with its down step and runs them again", async () => {
