@@ -1,5 +1,5 @@
 import type { DataSource, EntityManager } from "typeorm";
-import { passwordIsNotEmail } from "../../shared/schemas/auth.js";
+import { PASSWORD_IS_EMAIL, passwordIsNotEmail } from "../../shared/schemas/auth.js";
 import { hashPassword } from "../auth/passwords.js";
 import { Company, Membership, User } from "../db/entities/index.js";
 import { AppError } from "../errors.js";
@@ -44,8 +44,8 @@ export async function recordSignIn(db: DataSource | EntityManager, userId: strin
 /** The password rules beyond the schema's length: it may not be the account's e-mail. */
 export function checkNewPassword(password: string, email: string): void {
   if (!passwordIsNotEmail(password, email)) {
-    throw new AppError("invalid_input", "password: password must not be your e-mail address", {
-      fields: { password: "password must not be your e-mail address" },
+    throw new AppError("invalid_input", `password: ${PASSWORD_IS_EMAIL}`, {
+      fields: { password: PASSWORD_IS_EMAIL },
     });
   }
 }

@@ -42,7 +42,7 @@ export const linkTokenSchema = z
 export function passwordIsNotEmail(password: string, email: string): boolean {
   return password.trim().toLowerCase() !== email.trim().toLowerCase();
 }
-const PASSWORD_IS_EMAIL = "password must not be your e-mail address";
+export const PASSWORD_IS_EMAIL = "password must not be your e-mail address";
 
 export const SignUpInput = z
   .strictObject({ companyName: companyNameSchema, name: personNameSchema, email: emailSchema, password: passwordSchema })

@@ -1,4 +1,5 @@
-import type { z } from "zod";
+import { z } from "zod";
+import { CSRF_HEADER } from "../../shared/http";
 import { ApiErrorBody } from "../../shared/schemas/error";
 
 /** A failed API call: the server's error code and message, or a network failure (code "network_error"). */
@@ -22,6 +23,23 @@ export interface RequestOptions {
   signal?: AbortSignal;
 }
 
+/** The schema of a 204 answer: no body. */
+export const NoContent = z.undefined();
+
+/** Field errors of an ApiError: `details.fields` (400 invalid_input) and `details.field` (one field the message is about). */
+export function apiFieldErrors(error: ApiError): Record<string, string> {
+  const fields: Record<string, string> = {};
+  const raw = error.details?.fields;
+  if (raw && typeof raw === "object") {
+    for (const [name, message] of Object.entries(raw as Record<string, unknown>)) {
+      if (typeof message === "string") fields[name] = message;
+    }
+  }
+  const single = error.details?.field;
+  if (typeof single === "string" && !(single in fields)) fields[single] = error.message;
+  return fields;
+}
+
 /** Calls /api{path}, sends and reads JSON, and parses the answer with the shared schema. */
 export async function apiRequest<S extends z.ZodType>(path: string, schema: S, options: RequestOptions = {}): Promise<z.infer<S>> {
   const { method = "GET", body, acceptStatuses = [], signal } = options;
@@ -30,7 +48,12 @@ export async function apiRequest<S extends z.ZodType>(path: string, schema: S, o
     response = await fetch(`/api${path}`, {
       method,
       credentials: "include",
-      headers: { Accept: "application/json", ...(body === undefined ? {} : { "Content-Type": "application/json" }) },
+      // The CSRF header goes on every call (the server requires it on every non-GET one).
+      headers: {
+        Accept: "application/json",
+        [CSRF_HEADER]: "1",
+        ...(body === undefined ? {} : { "Content-Type": "application/json" }),
+      },
       body: body === undefined ? undefined : JSON.stringify(body),
       signal,
     });

@@ -3,8 +3,8 @@ import path from "node:path";
 import type { BrowserContext } from "playwright-core";
 import type { DataSource } from "typeorm";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { Membership } from "../../server/db/entities/index.js";
-import { TEST_PASSWORD, uniqueEmail } from "../support/accounts.js";
+import { Company, Membership } from "../../server/db/entities/index.js";
+import { signUpCompany, TEST_PASSWORD, uniqueEmail } from "../support/accounts.js";
 import { startTestApp, type TestApp } from "../support/app.js";
 import { artifactsDir, closeBrowser, hasChromium, launchBrowser, watchPage } from "../support/browser.js";
 import { linkIn, waitForMail } from "../support/mail.js";
@@ -15,6 +15,7 @@ describe.skipIf(!hasChromium)("accounts in headless Chromium: sign up, invite, a
   let app: TestApp;
   let ownerBrowser: BrowserContext;
   let estimatorBrowser: BrowserContext;
+  let extra: BrowserContext | undefined;
   const shots = artifactsDir("accounts");
 
   beforeAll(async () => {
@@ -26,6 +27,7 @@ describe.skipIf(!hasChromium)("accounts in headless Chromium: sign up, invite, a
   afterAll(async () => {
     await closeBrowser(ownerBrowser);
     await closeBrowser(estimatorBrowser);
+    await closeBrowser(extra);
     await app?.close();
     await db?.destroy();
   });
@@ -98,6 +100,42 @@ describe.skipIf(!hasChromium)("accounts in headless Chromium: sign up, invite, a
 
     expect(ownerWatch.problems).toEqual([]);
     expect(estimatorWatch.problems).toEqual([]);
+  });
+
+  it("forgot password: the e-mailed link sets a new password and signs in; the Owner saves company settings", async () => {
+    const owner = await signUpCompany(app, "Brackenfold Marine DC");
+    extra = await launchBrowser();
+    const page = await extra.newPage();
+    const watch = watchPage(page, app.url);
+    await page.goto(`${app.url}/sign-in`);
+    await page.getByRole("link", { name: "Forgot your password?" }).click();
+    await page.getByRole("heading", { level: 1, name: "Reset your password" }).waitFor();
+    await page.getByLabel("E-mail").fill(owner.email);
+    await page.getByRole("button", { name: "Send reset link" }).click();
+    await page.getByRole("status").filter({ hasText: "If an account uses that e-mail" }).waitFor();
+
+    const mail = await waitForMail(owner.email);
+    expect(mail.text).toContain("Brackenfold Marine DC");
+    await page.goto(linkIn(mail, `${app.url}/reset-password#token=`));
+    await page.getByRole("heading", { level: 1, name: "Set a new password" }).waitFor();
+    await page.getByLabel("New password").fill("tide-table-lantern-42");
+    await page.getByRole("button", { name: "Set password" }).click();
+    await page.getByRole("heading", { level: 1, name: "Dashboard" }).waitFor();
+    // The session the owner had before the reset is over.
+    expect((await owner.api.get("/api/auth/session")).body).toEqual({ signedIn: false });
+
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Settings" }).click();
+    await page.getByRole("heading", { name: "Company" }).waitFor();
+    await page.getByLabel("Licence number").fill("MDC-2026-118");
+    await page.getByLabel("Currency").fill("EUR");
+    await page.getByLabel("Labour rate per hour").fill("87.50");
+    await page.getByLabel("Deposit (%)").fill("40");
+    await page.getByRole("button", { name: "Save settings" }).click();
+    await page.getByRole("status").filter({ hasText: "Settings saved" }).waitFor();
+    await page.screenshot({ path: path.join(shots, "5-settings-saved.png") });
+    const company = await db.getRepository(Company).findOneByOrFail({ id: owner.companyId });
+    expect(company).toMatchObject({ licenceNumber: "MDC-2026-118", currency: "EUR", labourRateMinor: 8750, depositPercent: 40 });
+    expect(watch.problems).toEqual([]);
   });
 
   it("shows a wrong password beside the form, in words", async () => {

@@ -2,19 +2,21 @@ import type { ComponentType, SVGProps } from "react";
 import { NavLink, Outlet, useNavigation } from "react-router-dom";
 import logo from "../../../assets/logo.svg";
 import { paths } from "../../config/paths";
+import { AccountPanel } from "../../features/auth/components/account-panel";
 import { HealthIndicator } from "../../features/health/components/health-indicator";
 import { cn } from "../../utils/cn";
-import { GaugeIcon, PeopleIcon, RunIcon, SlidersIcon, TagIcon } from "../ui/icons";
+import { BadgeIcon, GaugeIcon, PeopleIcon, RunIcon, SlidersIcon, TagIcon } from "../ui/icons";
 
 const NAV: Array<{ to: string; label: string; icon: ComponentType<SVGProps<SVGSVGElement>> }> = [
   { to: paths.dashboard.getHref(), label: "Dashboard", icon: GaugeIcon },
   { to: paths.jobs.getHref(), label: "Jobs", icon: RunIcon },
   { to: paths.clients.getHref(), label: "Clients", icon: PeopleIcon },
   { to: paths.priceList.getHref(), label: "Price list", icon: TagIcon },
+  { to: paths.team.getHref(), label: "Team", icon: BadgeIcon },
   { to: paths.settings.getHref(), label: "Settings", icon: SlidersIcon },
 ];
 
-/** Page chrome: the navigation rail, the screen, and the footer with the server's health. */
+/** Page chrome: the navigation rail with the signed-in account, the screen, and the footer with the server's health. */
 export function AppFrame() {
   const navigation = useNavigation();
   return (
@@ -22,7 +24,7 @@ export function AppFrame() {
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded focus:bg-white focus:px-3 focus:py-2">
         Skip to content
       </a>
-      <aside className="bg-ink-900 text-ink-100 md:w-56 md:shrink-0">
+      <aside className="flex flex-col bg-ink-900 text-ink-100 md:w-56 md:shrink-0">
         <div className="flex items-center gap-2 px-4 py-4">
           <img src={logo} alt="" width={28} height={28} />
           <span className="text-lg font-semibold tracking-tight text-white">Runwright</span>
@@ -48,6 +50,9 @@ export function AppFrame() {
             ))}
           </ul>
         </nav>
+        <div className="md:mt-auto">
+          <AccountPanel />
+        </div>
       </aside>
       <div className="flex min-w-0 flex-1 flex-col">
         {navigation.state === "loading" ? <div role="progressbar" aria-label="Loading page" className="h-0.5 w-full animate-pulse bg-copper-400" /> : null}

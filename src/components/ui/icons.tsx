@@ -51,3 +51,12 @@ export const CompassIcon = (p: SVGProps<SVGSVGElement>) => (
     <path d="M15 9l-2 5-4 1 2-5z" />
   </Icon>
 );
+/** A crew badge on its lanyard: the team. */
+export const BadgeIcon = (p: SVGProps<SVGSVGElement>) => (
+  <Icon {...p}>
+    <path d="M9 3l3 4 3-4" />
+    <rect x="5" y="7" width="14" height="14" rx="2" />
+    <circle cx="12" cy="12.5" r="2" />
+    <path d="M8.5 18a3.5 3.5 0 0 1 7 0" />
+  </Icon>
+);
