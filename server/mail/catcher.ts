@@ -1,3 +1,4 @@
+import { mkdirSync } from "node:fs";
 import { isPortFree } from "../scripts/port-check.js";
 
 export interface MailCatcher {
@@ -11,9 +12,12 @@ export interface MailCatcher {
 /**
  * Starts the local SMTP catcher (maildev, a development dependency) on
  * 127.0.0.1: it accepts every message and shows it in a web inbox, so no mail
- * leaves the machine during development and tests.
+ * leaves the machine during development and tests. Each catcher keeps its
+ * messages in its own folder (maildev's default is one shared /tmp/maildev),
+ * so a test run and a running app never touch each other's mail; npm start's
+ * inbox survives restarts, capped at the newest 1,000 messages.
  */
-export async function startMailCatcher(smtpPort: number, webPort: number): Promise<MailCatcher> {
+export async function startMailCatcher(smtpPort: number, webPort: number, mailDirectory: string): Promise<MailCatcher> {
   for (const [port, variable] of [
     [smtpPort, "RUNWRIGHT_MAIL_SMTP_PORT"],
     [webPort, "RUNWRIGHT_MAIL_WEB_PORT"],
@@ -23,7 +27,8 @@ export async function startMailCatcher(smtpPort: number, webPort: number): Promi
     }
   }
   const { MailDev } = await import("maildev");
-  const maildev = new MailDev({ smtp: smtpPort, ip: "127.0.0.1", web: webPort, webIp: "127.0.0.1", silent: true });
+  mkdirSync(mailDirectory, { recursive: true });
+  const maildev = new MailDev({ smtp: smtpPort, ip: "127.0.0.1", web: webPort, webIp: "127.0.0.1", silent: true, mailDirectory, maxEmails: 1000 });
   await maildev.start();
   return {
     smtpPort,

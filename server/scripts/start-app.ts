@@ -25,7 +25,7 @@ async function main(): Promise<void> {
   const database = await openDevDatabase(env);
   cluster = database.cluster;
   if (!env.SMTP_HOST) {
-    catcher = await startMailCatcher(env.RUNWRIGHT_MAIL_SMTP_PORT, env.RUNWRIGHT_MAIL_WEB_PORT);
+    catcher = await startMailCatcher(env.RUNWRIGHT_MAIL_SMTP_PORT, env.RUNWRIGHT_MAIL_WEB_PORT, path.join(dataDirectory(env, projectRoot), "mail"));
     console.log(`Mail goes to the local catcher: SMTP on 127.0.0.1:${catcher.smtpPort}, inbox at ${catcher.webUrl}/`);
   }
   const clientDir = path.join(projectRoot, "dist", "client");

@@ -5,7 +5,7 @@ import { AppError } from "../errors.js";
 import { companyScope } from "./tenancy.js";
 
 export async function listMembers(db: DataSource, companyId: string): Promise<Membership[]> {
-  return companyScope(db.manager, companyId).find(Membership, { relations: { user: true }, order: { createdAt: "ASC" } });
+  return companyScope(db.manager, companyId).find(Membership, { relations: { user: true }, order: { createdAt: "ASC", user: { name: "ASC" } } });
 }
 
 // Locks every membership row of the company, so two Owners demoting each

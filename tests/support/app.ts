@@ -4,7 +4,9 @@ import type { Express } from "express";
 import type { DataSource } from "typeorm";
 import { createApp, type AppOptions } from "../../server/app.js";
 import type { RateLimitSettings } from "../../server/middleware/rate-limit.js";
+import { afterAll, beforeAll } from "vitest";
 import { catcherMailer } from "./mail.js";
+import { openTestDb } from "./test-db.js";
 
 export interface TestApp {
   app: Express;
@@ -37,4 +39,21 @@ export async function startTestApp(db: DataSource, options: Partial<AppOptions> 
         server.close(() => resolve());
       }),
   };
+}
+
+/**
+ * The usual setup of an API test file: a test DataSource and a test app for
+ * the describe block, closed afterwards. Read `t.db` and `t.app` inside tests.
+ */
+export function useTestApp(options: Partial<AppOptions> = {}): { db: DataSource; app: TestApp } {
+  const t = {} as { db: DataSource; app: TestApp };
+  beforeAll(async () => {
+    t.db = await openTestDb();
+    t.app = await startTestApp(t.db, options);
+  });
+  afterAll(async () => {
+    await t.app?.close();
+    await t.db?.destroy();
+  });
+  return t;
 }

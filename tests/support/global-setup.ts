@@ -30,7 +30,7 @@ export default async function setup(project: TestProject): Promise<() => Promise
   await buildClient(clientDir);
   project.provide("clientDir", clientDir);
 
-  const catcher = await startMailCatcher(await findFreePort(), await findFreePort());
+  const catcher = await startMailCatcher(await findFreePort(), await findFreePort(), path.join(base, "mail"));
   project.provide("mailCatcher", { smtpPort: catcher.smtpPort, webPort: catcher.webPort });
   return () => catcher.stop();
 }

@@ -5,7 +5,7 @@ import { Company } from "../../../server/db/entities/index.js";
 import { AUTH_RATE_LIMIT } from "../../../server/middleware/rate-limit.js";
 import { ApiClient } from "../../support/api.js";
 import { signUpCompany, TEST_PASSWORD, uniqueEmail } from "../../support/accounts.js";
-import { startTestApp, type TestApp } from "../../support/app.js";
+import { startTestApp, useTestApp } from "../../support/app.js";
 import { openTestDb } from "../../support/test-db.js";
 
 describe("rate limits: 10 per 15 minutes, per IP and per e-mail", () => {
@@ -81,44 +81,34 @@ describe("rate limits: 10 per 15 minutes, per IP and per e-mail", () => {
 });
 
 describe("CSRF: state-changing requests need the custom header and our own origin", () => {
-  let db: DataSource;
-  let app: TestApp;
-
-  beforeAll(async () => {
-    db = await openTestDb();
-    app = await startTestApp(db);
-  });
-  afterAll(async () => {
-    await app?.close();
-    await db?.destroy();
-  });
+  const t = useTestApp();
 
   it("refuses a cookie-authenticated change without X-Runwright-Request (403) and changes nothing", async () => {
-    const owner = await signUpCompany(app, "Before CSRF");
+    const owner = await signUpCompany(t.app, "Before CSRF");
     const forged = await owner.api.patch("/api/company", { name: "Hijacked" }, { csrf: false });
     expect(forged.status).toBe(403);
     expect(forged.body.error.code).toBe("forbidden");
     expect(forged.body.error.message).toContain("X-Runwright-Request");
-    expect((await db.getRepository(Company).findOneByOrFail({ id: owner.companyId })).name).toBe("Before CSRF");
+    expect((await t.db.getRepository(Company).findOneByOrFail({ id: owner.companyId })).name).toBe("Before CSRF");
     // Sign-out and sign-in are guarded too (no forced sign-out, no login CSRF).
     expect((await owner.api.post("/api/auth/sign-out", undefined, { csrf: false })).status).toBe(403);
     expect((await owner.api.get("/api/auth/session")).body.signedIn).toBe(true);
-    expect((await new ApiClient(app.app).post("/api/auth/sign-in", { email: owner.email, password: TEST_PASSWORD }, { csrf: false })).status).toBe(403);
+    expect((await new ApiClient(t.app.app).post("/api/auth/sign-in", { email: owner.email, password: TEST_PASSWORD }, { csrf: false })).status).toBe(403);
   });
 
   it("refuses a request from another origin even with the header", async () => {
-    const owner = await signUpCompany(app);
-    const evil = new ApiClient(app.app, { Origin: "http://evil.example" });
+    const owner = await signUpCompany(t.app);
+    const evil = new ApiClient(t.app.app, { Origin: "http://evil.example" });
     expect((await evil.post("/api/auth/sign-in", { email: owner.email, password: TEST_PASSWORD })).status).toBe(403);
-    const opaque = new ApiClient(app.app, { Origin: "null" });
+    const opaque = new ApiClient(t.app.app, { Origin: "null" });
     expect((await opaque.post("/api/auth/sign-in", { email: owner.email, password: TEST_PASSWORD })).status).toBe(403);
     // Against the running server, so Host is known and Origin can match it.
-    const same = new ApiClient(app.url, { Origin: app.url });
+    const same = new ApiClient(t.app.url, { Origin: t.app.url });
     expect((await same.post("/api/auth/sign-in", { email: owner.email, password: TEST_PASSWORD })).status).toBe(200);
   });
 
   it("reads need no header", async () => {
-    const owner = await signUpCompany(app);
+    const owner = await signUpCompany(t.app);
     expect((await owner.api.get("/api/company")).status).toBe(200);
   });
 });

@@ -1,29 +1,17 @@
-import type { DataSource } from "typeorm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { SESSION_TABLE } from "../../../server/auth/session.js";
 import { User } from "../../../server/db/entities/index.js";
 import { ApiClient, sessionIdSetBy } from "../../support/api.js";
 import { signUpCompany, TEST_PASSWORD, uniqueEmail } from "../../support/accounts.js";
-import { startTestApp, type TestApp } from "../../support/app.js";
-import { openTestDb } from "../../support/test-db.js";
+import { useTestApp } from "../../support/app.js";
 
 describe("sign up, sign in, who am I, sign out", () => {
-  let db: DataSource;
-  let app: TestApp;
+  const t = useTestApp();
 
-  beforeAll(async () => {
-    db = await openTestDb();
-    app = await startTestApp(db);
-  });
-  afterAll(async () => {
-    await app?.close();
-    await db?.destroy();
-  });
-
-  const sessionRow = async (sid: string) => (await db.query(`SELECT "sess" FROM "${SESSION_TABLE}" WHERE "sid" = $1`, [sid])) as unknown[];
+  const sessionRow = async (sid: string) => (await t.db.query(`SELECT "sess" FROM "${SESSION_TABLE}" WHERE "sid" = $1`, [sid])) as unknown[];
 
   it("answers signed out without a session, and 401 on a guarded route", async () => {
-    const api = new ApiClient(app.app);
+    const api = new ApiClient(t.app.app);
     const session = await api.get("/api/auth/session");
     expect(session.status).toBe(200);
     expect(session.body).toEqual({ signedIn: false });
@@ -33,7 +21,7 @@ describe("sign up, sign in, who am I, sign out", () => {
   });
 
   it("signs up a company and its Owner, signed in at once, with a hardened cookie", async () => {
-    const api = new ApiClient(app.app);
+    const api = new ApiClient(t.app.app);
     const email = uniqueEmail("Founder").toUpperCase();
     const response = await api.post("/api/auth/sign-up", { companyName: "  Driftwood Solar Co  ", name: "Fern Founder", email, password: TEST_PASSWORD });
     expect(response.status).toBe(201);
@@ -47,13 +35,13 @@ describe("sign up, sign in, who am I, sign out", () => {
 
     const who = await api.get("/api/auth/session");
     expect(who.body).toMatchObject({ signedIn: true, role: "owner", memberships: [{ role: "owner" }] });
-    const stored = await db.getRepository(User).findOneByOrFail({ email: email.toLowerCase() });
+    const stored = await t.db.getRepository(User).findOneByOrFail({ email: email.toLowerCase() });
     expect(stored.passwordHash.startsWith("$argon2id$")).toBe(true);
     expect(stored.passwordHash).not.toContain(TEST_PASSWORD);
   });
 
   it("sets Secure on the cookie when the request came over HTTPS through a loopback proxy", async () => {
-    const api = new ApiClient(app.app, { "X-Forwarded-Proto": "https" });
+    const api = new ApiClient(t.app.app, { "X-Forwarded-Proto": "https" });
     const response = await api.post("/api/auth/sign-up", { companyName: "Secure Co", name: "Sam", email: uniqueEmail("secure"), password: TEST_PASSWORD });
     expect(response.status).toBe(201);
     const cookie = ([] as string[]).concat(response.headers["set-cookie"] ?? []).find((c) => c.startsWith("runwright.sid="));
@@ -61,16 +49,16 @@ describe("sign up, sign in, who am I, sign out", () => {
   });
 
   it("refuses a second account for the same e-mail in any letter case, saving nothing", async () => {
-    const { email } = await signUpCompany(app);
-    const before = await db.query(`SELECT count(*)::int AS n FROM company`);
-    const again = await new ApiClient(app.app).post("/api/auth/sign-up", { companyName: "Copy", name: "Copy", email: email.toUpperCase(), password: TEST_PASSWORD });
+    const { email } = await signUpCompany(t.app);
+    const before = await t.db.query(`SELECT count(*)::int AS n FROM company`);
+    const again = await new ApiClient(t.app.app).post("/api/auth/sign-up", { companyName: "Copy", name: "Copy", email: email.toUpperCase(), password: TEST_PASSWORD });
     expect(again.status).toBe(409);
     expect(again.body.error).toMatchObject({ code: "conflict", details: { field: "email" } });
-    expect(await db.query(`SELECT count(*)::int AS n FROM company`)).toEqual(before);
+    expect(await t.db.query(`SELECT count(*)::int AS n FROM company`)).toEqual(before);
   });
 
   it("names the field for bad sign-up input and saves nothing", async () => {
-    const api = new ApiClient(app.app);
+    const api = new ApiClient(t.app.app);
     const email = uniqueEmail("bad");
     const cases: Array<[Record<string, unknown>, string]> = [
       [{ companyName: "X", name: "Y", email, password: "short" }, "password"],
@@ -85,12 +73,12 @@ describe("sign up, sign in, who am I, sign out", () => {
       expect(response.body.error.code).toBe("invalid_input");
       expect(Object.keys(response.body.error.details.fields)).toContain(field);
     }
-    expect(await db.getRepository(User).countBy({ email })).toBe(0);
+    expect(await t.db.getRepository(User).countBy({ email })).toBe(0);
   });
 
   it("signs in with the e-mail in any case; a wrong password and an unknown e-mail get the same answer", async () => {
-    const { email } = await signUpCompany(app);
-    const api = new ApiClient(app.app);
+    const { email } = await signUpCompany(t.app);
+    const api = new ApiClient(t.app.app);
     const wrong = await api.post("/api/auth/sign-in", { email, password: "not-the-password" });
     const unknown = await api.post("/api/auth/sign-in", { email: uniqueEmail("nobody"), password: "not-the-password" });
     expect(wrong.status).toBe(401);
@@ -101,14 +89,14 @@ describe("sign up, sign in, who am I, sign out", () => {
     const ok = await api.post("/api/auth/sign-in", { email: email.toUpperCase(), password: TEST_PASSWORD });
     expect(ok.status).toBe(200);
     expect(ok.body).toMatchObject({ signedIn: true, role: "owner" });
-    const user = await db.getRepository(User).findOneByOrFail({ email });
+    const user = await t.db.getRepository(User).findOneByOrFail({ email });
     expect(user.lastSignInAt).toBeInstanceOf(Date);
   });
 
   it("gives a new session id at sign-in (no fixation) and destroys the old session row", async () => {
-    const first = await signUpCompany(app);
-    const second = await signUpCompany(app);
-    const api = new ApiClient(app.app);
+    const first = await signUpCompany(t.app);
+    const second = await signUpCompany(t.app);
+    const api = new ApiClient(t.app.app);
     const a = sessionIdSetBy(await api.post("/api/auth/sign-in", { email: first.email, password: TEST_PASSWORD }));
     expect(a).toBeDefined();
     expect(await sessionRow(a!)).toHaveLength(1);
@@ -121,7 +109,7 @@ describe("sign up, sign in, who am I, sign out", () => {
   });
 
   it("signs out: the session row is destroyed and the cookie no longer works", async () => {
-    const { api } = await signUpCompany(app);
+    const { api } = await signUpCompany(t.app);
     const sid = sessionIdSetBy(await api.post("/api/auth/sign-in", { email: (await api.get("/api/auth/session")).body.user.email, password: TEST_PASSWORD }));
     const out = await api.post("/api/auth/sign-out");
     expect(out.status).toBe(204);

@@ -1,11 +1,9 @@
-import type { DataSource } from "typeorm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { listRoutes } from "../../../server/routes/route-table.js";
 import type { ApiClient } from "../../support/api.js";
 import { TEST_PASSWORD, uniqueEmail } from "../../support/accounts.js";
-import { startTestApp, type TestApp } from "../../support/app.js";
+import { useTestApp } from "../../support/app.js";
 import { companyFixture, type CompanyFixture } from "../../support/fixtures.js";
-import { openTestDb } from "../../support/test-db.js";
 
 type Who = "anonymous" | "installer" | "estimator" | "owner";
 const WHO: Who[] = ["anonymous", "installer", "estimator", "owner"];
@@ -49,20 +47,10 @@ const MATRIX: Record<string, Row> = {
 };
 
 describe("role matrix: every route × role gets the expected status", () => {
-  let db: DataSource;
-  let app: TestApp;
-
-  beforeAll(async () => {
-    db = await openTestDb();
-    app = await startTestApp(db);
-  });
-  afterAll(async () => {
-    await app?.close();
-    await db?.destroy();
-  });
+  const t = useTestApp();
 
   it("has a row for every registered /api route, and no stale rows", () => {
-    const registered = listRoutes(app.app)
+    const registered = listRoutes(t.app.app)
       .filter((r) => r.path.startsWith("/api"))
       .map((r) => `${r.method} ${r.path}`);
     expect(registered.filter((key) => !(key in MATRIX)), "routes missing from MATRIX").toEqual([]);
@@ -70,7 +58,7 @@ describe("role matrix: every route × role gets the expected status", () => {
   });
 
   it("marks every route with a guard (public, or a permission)", () => {
-    const unguarded = listRoutes(app.app).filter((r) => r.path.startsWith("/api") && r.access === "unguarded");
+    const unguarded = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && r.access === "unguarded");
     expect(unguarded.map((r) => `${r.method} ${r.path}`)).toEqual([]);
   });
 
@@ -78,7 +66,7 @@ describe("role matrix: every route × role gets the expected status", () => {
   for (const [key, row] of Object.entries(MATRIX)) {
     it(key, async () => {
       const [method, template] = key.split(" ");
-      const f = await companyFixture(db, app);
+      const f = await companyFixture(t.db, t.app);
       const clients: Record<Who, ApiClient> = { anonymous: f.anonymous, installer: f.installer.api, estimator: f.estimator.api, owner: f.owner.api };
       const got: Record<string, number> = {};
       for (const who of WHO) {

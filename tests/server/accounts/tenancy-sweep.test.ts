@@ -1,9 +1,7 @@
-import type { DataSource } from "typeorm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { listRoutes } from "../../../server/routes/route-table.js";
 import { companyFixture, companySnapshot, type CompanyFixture } from "../../support/fixtures.js";
-import { startTestApp, type TestApp } from "../../support/app.js";
-import { openTestDb } from "../../support/test-db.js";
+import { useTestApp } from "../../support/app.js";
 
 // For each route parameter, which of company A's resources to aim at. A new
 // route with a new parameter fails the sweep until it is added here.
@@ -18,32 +16,25 @@ const BODIES: Record<string, unknown> = {
 };
 
 describe("tenancy sweep: a member of company B never reaches company A's resources", () => {
-  let db: DataSource;
-  let app: TestApp;
+  const t = useTestApp();
   let a: CompanyFixture;
   let b: CompanyFixture;
 
   beforeAll(async () => {
-    db = await openTestDb();
-    app = await startTestApp(db);
-    a = await companyFixture(db, app);
-    b = await companyFixture(db, app);
-  });
-  afterAll(async () => {
-    await app?.close();
-    await db?.destroy();
+    a = await companyFixture(t.db, t.app);
+    b = await companyFixture(t.db, t.app);
   });
 
   it("finds the routes that take a resource id from Express's router", () => {
-    const withIds = listRoutes(app.app).filter((r) => r.path.startsWith("/api") && r.params.length > 0);
+    const withIds = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && r.params.length > 0);
     expect(withIds.map((r) => `${r.method} ${r.path}`)).toEqual(
       expect.arrayContaining(["PATCH /api/members/:userId", "DELETE /api/members/:userId", "DELETE /api/invitations/:id"]),
     );
   });
 
   it("answers 404 to B's Owner for every one of them, and changes nothing of A's", async () => {
-    const routes = listRoutes(app.app).filter((r) => r.path.startsWith("/api") && r.params.length > 0);
-    const before = await companySnapshot(db, a.companyId);
+    const routes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && r.params.length > 0);
+    const before = await companySnapshot(t.db, a.companyId);
     for (const route of routes) {
       let path = route.path;
       for (const param of route.params) {
@@ -56,7 +47,7 @@ describe("tenancy sweep: a member of company B never reaches company A's resourc
       expect(response.status, `${route.method} ${path}`).toBe(404);
       expect(response.body.error.code).toBe("not_found");
     }
-    expect(await companySnapshot(db, a.companyId)).toEqual(before);
+    expect(await companySnapshot(t.db, a.companyId)).toEqual(before);
   });
 
   it("the same routes reach B's own resources, so the 404s above are about tenancy", async () => {
