@@ -14,6 +14,12 @@ export function expectNoSecrets(text: string | undefined): void {
 
 export type ApiResponse = request.Response;
 
+/** Any JSON value as the body (supertest alone sends only objects and arrays as JSON). */
+function withJson(test: request.Test, body: unknown): request.Test {
+  if (body === undefined) return test;
+  return test.set("Content-Type", "application/json").send(JSON.stringify(body));
+}
+
 /**
  * A cookie-keeping HTTP client for one person (supertest agent). Every
  * request sends the CSRF header unless told not to, and every response is
@@ -41,16 +47,13 @@ export class ApiClient {
     return this.send(this.agent.get(path), false);
   }
   post(path: string, body?: unknown, { csrf = true } = {}): Promise<ApiResponse> {
-    const test = this.agent.post(path);
-    return this.send(body === undefined ? test : test.send(body as object), csrf);
+    return this.send(withJson(this.agent.post(path), body), csrf);
   }
   patch(path: string, body?: unknown, { csrf = true } = {}): Promise<ApiResponse> {
-    const test = this.agent.patch(path);
-    return this.send(body === undefined ? test : test.send(body as object), csrf);
+    return this.send(withJson(this.agent.patch(path), body), csrf);
   }
   put(path: string, body?: unknown, { csrf = true } = {}): Promise<ApiResponse> {
-    const test = this.agent.put(path);
-    return this.send(body === undefined ? test : test.send(body as object), csrf);
+    return this.send(withJson(this.agent.put(path), body), csrf);
   }
   delete(path: string, { csrf = true } = {}): Promise<ApiResponse> {
     return this.send(this.agent.delete(path), csrf);

@@ -132,3 +132,39 @@ describe("no password hash in any answer", () => {
     }
   });
 });
+
+describe("hostile bodies on every route that reads one", () => {
+  const t = useTestApp();
+
+  // Wrong types, nesting, huge and odd strings: each must get a 4xx in the error shape, never a 500.
+  const BODIES: unknown[] = [
+    [],
+    [1, 2, 3],
+    "a string",
+    42,
+    { email: ["a@b.test"], password: { $gt: "" } },
+    { email: "x".repeat(100_000), password: "y".repeat(100_000), token: "z".repeat(5000) },
+    { email: "a@b.test", password: null, name: 7, role: ["owner"], companyId: "' OR 1=1 --" },
+    { companyName: "\u0000\u202e", name: "\ud800", email: "a@b.test", password: "p".repeat(12), token: "../../etc/passwd" },
+    { currency: { toString: "USD" }, depositPercent: "NaN", taxRatePercent: 1e308, labourRateMinor: -0.5 },
+  ];
+
+  it("answers 4xx with the error shape, and the app keeps serving", async () => {
+    const { listRoutes } = await import("../../../server/routes/route-table.js");
+    const owner = await signUpCompany(t.app);
+    const spare = (await owner.api.get("/api/members")).body.members[0].userId as string;
+    const writes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && ["POST", "PATCH", "PUT"].includes(r.method));
+    expect(writes.length).toBeGreaterThan(8);
+    for (const route of writes) {
+      if (route.path === "/api/auth/sign-out") continue; // reads no body
+      const path = route.path.replace(":userId", spare).replace(":id", spare);
+      for (const body of BODIES) {
+        const response = await owner.api.call(route.method, path, body);
+        expect(response.status, `${route.method} ${route.path} ${JSON.stringify(body).slice(0, 80)}`).toBeGreaterThanOrEqual(400);
+        expect(response.status, `${route.method} ${route.path} ${JSON.stringify(body).slice(0, 80)}`).toBeLessThan(500);
+        expect(typeof response.body.error?.message).toBe("string");
+      }
+    }
+    expect((await owner.api.get("/api/auth/session")).body.signedIn).toBe(true);
+  });
+});
