@@ -36,6 +36,8 @@ export interface AppOptions {
   mailer?: Mailer;
   /** Sign-in and reset limits; 10 per 15 minutes unless a test needs more room. */
   authRateLimit?: RateLimitSettings;
+  /** Express's "trust proxy" setting; default: proxies on loopback only. */
+  trustProxy?: string | number;
   /** Delete expired sessions periodically (the running server does). */
   pruneSessions?: boolean;
 }
@@ -45,7 +47,8 @@ export function createApp(options: AppOptions): Express {
   const { db, clientDir, logger = pino({ level: "silent" }), dbTimeoutMs = 5000 } = options;
   const app = express();
   app.disable("x-powered-by");
-  app.set("trust proxy", "loopback");
+  // Whose X-Forwarded-For to believe for the client's IP (rate limits) and protocol (Secure cookie).
+  app.set("trust proxy", options.trustProxy ?? "loopback");
 
   app.use(
     helmet({
@@ -88,7 +91,7 @@ export function createApp(options: AppOptions): Express {
   const api = express.Router();
   api.use(express.json({ limit: MAX_JSON_BODY_BYTES }));
   api.use(healthRoutes(db, dbTimeoutMs));
-  api.use(csrfGuard);
+  api.use(csrfGuard(options.publicUrl));
   api.use(
     sessionMiddleware(db, {
       secret: options.sessionSecret ?? randomBytes(32).toString("base64url"),

@@ -48,6 +48,7 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true, da
       dbTimeoutMs: env.DB_CONNECT_TIMEOUT_MS,
       sessionSecret,
       cookieSecure: env.COOKIE_SECURE,
+      trustProxy: /^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY,
       publicUrl: publicUrl(env),
       mailer,
       pruneSessions: true,

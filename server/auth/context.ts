@@ -59,17 +59,20 @@ export async function loadAuthContext(db: DataSource, userId: string, preferredC
 /**
  * Resolves req.auth from the session, with one query. A user whose last
  * membership was removed is treated as signed out; a removed membership or a
- * changed role takes effect on the very next request.
+ * changed role takes effect on the very next request. When the user was
+ * removed from the company they were working in, that request is answered
+ * as signed out (never silently applied to another of their companies); the
+ * session moves to their oldest remaining company for the requests after it.
  */
 export function resolveAuth(db: DataSource): RequestHandler {
   return async (req, _res, next) => {
     const userId = req.user?.id;
     if (!userId) return next();
     const auth = await loadAuthContext(db, userId, req.session.companyId);
-    if (auth) {
-      req.auth = auth;
-      if (req.session.companyId !== auth.companyId) req.session.companyId = auth.companyId;
-    }
+    if (!auth) return next();
+    const lostCompany = req.session.companyId !== undefined && req.session.companyId !== auth.companyId;
+    req.session.companyId = auth.companyId;
+    if (!lostCompany) req.auth = auth;
     next();
   };
 }

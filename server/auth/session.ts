@@ -3,7 +3,7 @@ import type { RequestHandler } from "express";
 import session from "express-session";
 import type { Logger } from "pino";
 import type pg from "pg";
-import type { DataSource } from "typeorm";
+import type { DataSource, EntityManager } from "typeorm";
 
 export const SESSION_COOKIE = "runwright.sid";
 /** Created by the create-accounts migration, never at run time. */
@@ -53,11 +53,7 @@ export function sessionMiddleware(db: DataSource, settings: SessionSettings): Re
   });
 }
 
-/** Ends every session of a user except the one with id `keepSid` (after a password reset). */
-export async function endOtherSessions(db: DataSource, userId: string, keepSid?: string): Promise<number> {
-  const result = await poolOf(db).query(`DELETE FROM "${SESSION_TABLE}" WHERE "sess" -> 'passport' ->> 'user' = $1 AND "sid" <> $2`, [
-    userId,
-    keepSid ?? "",
-  ]);
-  return result.rowCount ?? 0;
+/** Ends every session of a user except the one with id `keepSid` (after a password reset), inside the caller's transaction. */
+export async function endOtherSessions(tx: EntityManager, userId: string, keepSid?: string): Promise<void> {
+  await tx.query(`DELETE FROM "${SESSION_TABLE}" WHERE "sess" -> 'passport' ->> 'user' = $1 AND "sid" <> $2`, [userId, keepSid ?? ""]);
 }

@@ -19,6 +19,8 @@ const EnvSchema = z.object({
   SESSION_SECRET: z.string().min(32, "must be at least 32 characters").optional(),
   /** `auto`: the cookie is Secure when the request came over HTTPS (directly or through a proxy on loopback). */
   COOKIE_SECURE: z.enum(["auto", "true", "false"]).default("auto"),
+  /** Which proxies' X-Forwarded-* headers to believe (Express "trust proxy": loopback, an address or subnet list, a hop count). */
+  TRUST_PROXY: z.string().min(1).default("loopback"),
   /** The address people open, used in e-mailed links; defaults to http://HOST:PORT. */
   PUBLIC_URL: z.string().url().optional(),
   /** An SMTP server for outgoing mail; when unset, npm start runs the local mail catcher and sends to it. */

@@ -23,7 +23,7 @@ export async function seedDemo(db: DataSource): Promise<void> {
     const taken = await db.getRepository(User).existsBy([{ id: user.id }, { email: user.email }]);
     if (!taken) missing.push(user);
   }
-  // Hash before the transaction: argon2 takes ~80 ms a password.
+  // Hash before the transaction (argon2: about 15 ms a password).
   const hashes = new Map<string, string>();
   for (const user of missing) hashes.set(user.id, await hashPassword(DEMO_PASSWORD));
   await db.transaction(async (tx) => {

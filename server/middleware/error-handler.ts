@@ -21,12 +21,24 @@ function isDatabaseUnavailable(error: unknown): boolean {
 /** Turns anything thrown into `{ error: { code, message, details? } }` with the right status. */
 export const errorHandler: ErrorRequestHandler = (error, req, res, _next) => {
   const appError = toAppError(error);
-  if (appError.status >= 500) req.log?.error({ err: error }, appError.message);
+  if (appError.status >= 500) req.log?.error({ err: loggable(error) }, appError.message);
   const body: ApiErrorBody = { error: { code: appError.code, message: appError.message } };
   if (appError.details) body.error.details = appError.details;
   if (res.headersSent) return;
   res.status(appError.status).json(body);
 };
+
+/**
+ * What of an error goes to the log: a database error's query parameters are
+ * left out, since they can hold password hashes, e-mails and names.
+ */
+function loggable(error: unknown): unknown {
+  if (error instanceof Error && "parameters" in error) {
+    const { code } = error as { code?: unknown };
+    return { type: error.name, message: error.message, code, stack: error.stack };
+  }
+  return error;
+}
 
 function toAppError(error: unknown): AppError {
   if (error instanceof AppError) return error;
@@ -50,6 +62,12 @@ function toAppError(error: unknown): AppError {
     return new AppError("unsupported_media_type", "The request body's encoding is not supported");
   }
   if (isDatabaseUnavailable(error)) return new AppError("service_unavailable", "The database is not reachable; try again shortly");
+  // SQLSTATE class 22 (data exception: a value the column cannot hold). The
+  // schemas should refuse such values first; this is the backstop, never a 500.
+  const sqlState = (error as { code?: unknown })?.code;
+  if (typeof sqlState === "string" && /^22[0-9A-Z]{3}$/.test(sqlState)) {
+    return new AppError("invalid_input", "A value in the request cannot be stored (out of range or an invalid character)");
+  }
   const status = (error as { status?: unknown })?.status;
   if (typeof status === "number" && status >= 400 && status < 500) {
     return new AppError("invalid_input", "The request could not be read");

@@ -27,7 +27,9 @@ export function authRoutes({ db, passport, mailer, publicUrl, logger, rateLimit 
     res.json(presentSession(req.auth));
   });
 
-  router.post("/sign-up", publicRoute, ...limitBy("sign-up", rateLimit, ["ip"]), async (req, res) => {
+  // Sign-up must say when an e-mail already has an account (so the person signs in instead); the per-e-mail
+  // limit keeps that from being used to test many addresses.
+  router.post("/sign-up", publicRoute, ...limitBy("sign-up", rateLimit, ["ip", "email"]), async (req, res) => {
     const input = SignUpInput.parse(req.body);
     const user = await signUp(db, input);
     const auth = await signInAs(db, req, user.id);
@@ -69,8 +71,9 @@ export function authRoutes({ db, passport, mailer, publicUrl, logger, rateLimit 
 
   router.post("/forgot-password", publicRoute, ...limitBy("password reset", rateLimit, ["ip", "email"]), async (req, res) => {
     const { email } = ForgotPasswordInput.parse(req.body);
-    await requestPasswordReset(db, email, publicUrl, mailer, logger);
+    // Answer first, then look the address up: known and unknown addresses take the same time.
     res.status(202).json({ message: RESET_REQUESTED });
+    setImmediate(() => void requestPasswordReset(db, email, publicUrl, mailer, logger));
   });
 
   router.post("/reset-password", publicRoute, ...limitBy("password reset", rateLimit, ["ip"]), async (req, res) => {

@@ -17,12 +17,14 @@ export function memberRoutes({ db }: AccountDeps): Router {
   router.patch("/:userId", can("members:write"), async (req, res) => {
     const userId = idParam(req.params.userId, "Member");
     const { role } = ChangeRoleInput.parse(req.body);
-    res.json(presentMember(await changeRole(db, requireAuth(req).companyId, userId, role)));
+    const auth = requireAuth(req);
+    res.json(presentMember(await changeRole(db, auth.companyId, auth.userId, userId, role)));
   });
 
   router.delete("/:userId", can("members:write"), async (req, res) => {
     const userId = idParam(req.params.userId, "Member");
-    await removeMember(db, requireAuth(req).companyId, userId);
+    const auth = requireAuth(req);
+    await removeMember(db, auth.companyId, auth.userId, userId);
     res.status(204).end();
   });
 

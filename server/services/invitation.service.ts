@@ -39,6 +39,9 @@ export function listPendingInvitations(db: DataSource, companyId: string): Promi
  */
 export async function inviteMember(db: DataSource, props: InviteProps): Promise<Invitation> {
   return db.transaction(async (tx) => {
+    // Invitations of one company are made one at a time (two at once for one address would leave two live links).
+    const company = await tx.findOne(Company, { where: { id: props.companyId }, lock: { mode: "pessimistic_write" } });
+    if (!company) throw new AppError("not_found", "Company not found");
     const scope = companyScope(tx, props.companyId);
     const existing = await tx.findOne(User, { where: { email: props.email } });
     if (existing && (await scope.count(Membership, { userId: existing.id })) > 0) {
@@ -58,7 +61,6 @@ export async function inviteMember(db: DataSource, props: InviteProps): Promise<
         invitedById: props.invitedById,
       }),
     );
-    const company = await tx.findOneByOrFail(Company, { id: props.companyId });
     try {
       await props.mailer.send(
         invitationMail({
@@ -149,6 +151,7 @@ export async function acceptInvitation(db: DataSource, props: AcceptProps): Prom
     return await db.transaction(async (tx) => {
       const invitation = await tx.findOne(Invitation, { where: { id: checked.id }, lock: { mode: "pessimistic_write" } });
       if (!invitation || invitation.acceptedAt || invitation.revokedAt) throw new AppError("gone", LINK_USED, { field: "token" });
+      if (invitation.expiresAt.getTime() <= Date.now()) throw new AppError("gone", LINK_EXPIRED, { field: "token" });
       let userId = existing?.id;
       if (!userId) {
         const user = await tx.save(tx.create(User, { email: invitation.email, name: props.name as string, passwordHash: newHash as string }));

@@ -14,6 +14,14 @@ async function lockMembers(tx: EntityManager, companyId: string): Promise<Member
   return tx.find(Membership, { where: { companyId }, lock: { mode: "pessimistic_write" } });
 }
 
+// The actor's role is checked again under the lock: an Owner demoted a moment
+// ago by someone else must not finish a change that was already on its way.
+function actorGuard(members: Membership[], actorId: string): void {
+  if (members.find((m) => m.userId === actorId)?.role !== "owner") {
+    throw new AppError("forbidden", "Only the company's Owner can change the team");
+  }
+}
+
 function lastOwnerGuard(members: Membership[], target: Membership, action: string): void {
   const owners = members.filter((m) => m.role === "owner");
   if (target.role === "owner" && owners.length === 1) {
@@ -22,9 +30,10 @@ function lastOwnerGuard(members: Membership[], target: Membership, action: strin
 }
 
 /** Changes a member's role (Owner only). The last Owner cannot be demoted. */
-export async function changeRole(db: DataSource, companyId: string, userId: string, role: Role): Promise<Membership> {
+export async function changeRole(db: DataSource, companyId: string, actorId: string, userId: string, role: Role): Promise<Membership> {
   return db.transaction(async (tx) => {
     const members = await lockMembers(tx, companyId);
+    actorGuard(members, actorId);
     const target = members.find((m) => m.userId === userId);
     if (!target) throw new AppError("not_found", "Member not found");
     if (role !== "owner") lastOwnerGuard(members, target, "made an " + (role === "estimator" ? "Estimator" : "Installer"));
@@ -36,9 +45,10 @@ export async function changeRole(db: DataSource, companyId: string, userId: stri
 }
 
 /** Removes a member from the company (their account stays). The last Owner cannot be removed. */
-export async function removeMember(db: DataSource, companyId: string, userId: string): Promise<void> {
+export async function removeMember(db: DataSource, companyId: string, actorId: string, userId: string): Promise<void> {
   await db.transaction(async (tx) => {
     const members = await lockMembers(tx, companyId);
+    actorGuard(members, actorId);
     const target = members.find((m) => m.userId === userId);
     if (!target) throw new AppError("not_found", "Member not found");
     lastOwnerGuard(members, target, "removed");

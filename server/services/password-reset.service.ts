@@ -13,11 +13,19 @@ export const RESET_MINUTES = 60;
 
 /**
  * Starts a reset for an e-mail: when it has an account, saves a one-hour
- * single-use link and e-mails it. The caller answers the same either way and
- * does not wait for the mail, so neither the answer nor its timing tells
- * whether the address has an account.
+ * single-use link and e-mails it. The route answers before calling this (in
+ * the background), so neither the answer nor its timing tells whether the
+ * address has an account. Never rejects: failures are logged.
  */
 export async function requestPasswordReset(db: DataSource, email: string, publicUrl: string, mailer: Mailer, logger: Logger): Promise<void> {
+  try {
+    await startReset(db, email, publicUrl, mailer);
+  } catch (error) {
+    logger.error({ err: error instanceof Error ? { message: error.message } : error }, "password reset could not be started");
+  }
+}
+
+async function startReset(db: DataSource, email: string, publicUrl: string, mailer: Mailer): Promise<void> {
   const user = await db.getRepository(User).findOneBy({ email });
   if (!user) return;
   const link = newLinkToken();
@@ -28,9 +36,9 @@ export async function requestPasswordReset(db: DataSource, email: string, public
     expiresAt: new Date(Date.now() + RESET_MINUTES * 60 * 1000),
   });
   const membership = await db.getRepository(Membership).findOne({ where: { userId: user.id }, relations: { company: true }, order: { createdAt: "ASC" } });
-  mailer
-    .send(passwordResetMail({ to: user.email, name: user.name, companyName: membership?.company.name ?? "Runwright", url: `${publicUrl}/reset-password#token=${link.token}` }))
-    .catch((error: unknown) => logger.error({ err: error }, "password reset e-mail could not be sent"));
+  await mailer.send(
+    passwordResetMail({ to: user.email, name: user.name, companyName: membership?.company.name ?? "Runwright", url: `${publicUrl}/reset-password#token=${link.token}` }),
+  );
 }
 
 const LINK_BAD = "This reset link is not valid; ask for a new one";
@@ -66,7 +74,8 @@ export async function completePasswordReset(db: DataSource, token: string, passw
       .set({ usedAt: () => "now()" })
       .where("user_id = :userId AND used_at IS NULL", { userId: reset.userId })
       .execute();
+    // In the same transaction: the new password and the end of the other sessions happen together or not at all.
+    await endOtherSessions(tx, reset.userId, currentSid);
   });
-  await endOtherSessions(db, reset.userId, currentSid);
   return reset.userId;
 }

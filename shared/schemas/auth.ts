@@ -7,6 +7,15 @@ export const PASSWORD_MAX = 200;
 export const NAME_MAX = 120;
 export const COMPANY_NAME_MAX = 200;
 
+// PostgreSQL cannot store NUL, and no name needs control characters (tab and newline only where a field allows lines).
+const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/;
+const LINE_BREAK = /[\n\r\t]/;
+
+/** Refuses control characters in a one-line text field, naming the field. */
+export function withoutControlCharacters<T extends z.ZodType<string>>(schema: T, field: string, { multiline = false } = {}) {
+  return schema.refine((v) => !CONTROL.test(v) && (multiline || !LINE_BREAK.test(v)), `${field} contains a control character`);
+}
+
 export const emailSchema = z
   .string({ error: "e-mail is required" })
   .trim()
@@ -20,23 +29,32 @@ export const passwordSchema = z
   .min(PASSWORD_MIN, `password must be at least ${PASSWORD_MIN} characters`)
   .max(PASSWORD_MAX, `password must be at most ${PASSWORD_MAX} characters`);
 
-export const personNameSchema = z
-  .string({ error: "name is required" })
-  .trim()
-  .min(1, "name is required")
-  .max(NAME_MAX, `name must be at most ${NAME_MAX} characters`);
+export const personNameSchema = withoutControlCharacters(
+  z
+    .string({ error: "name is required" })
+    .trim()
+    .min(1, "name is required")
+    .max(NAME_MAX, `name must be at most ${NAME_MAX} characters`),
+  "name",
+);
 
-export const companyNameSchema = z
-  .string({ error: "company name is required" })
-  .trim()
-  .min(1, "company name is required")
-  .max(COMPANY_NAME_MAX, `company name must be at most ${COMPANY_NAME_MAX} characters`);
+export const companyNameSchema = withoutControlCharacters(
+  z
+    .string({ error: "company name is required" })
+    .trim()
+    .min(1, "company name is required")
+    .max(COMPANY_NAME_MAX, `company name must be at most ${COMPANY_NAME_MAX} characters`),
+  "company name",
+);
 
 /** The one token shape of e-mailed links: `<uuid>.<secret>`. */
 export const linkTokenSchema = z
   .string({ error: "token is required" })
   .trim()
-  .regex(/^[0-9a-f-]{36}\.[A-Za-z0-9_-]{43}$/, "the link is incomplete or damaged; open it again from the e-mail");
+  .regex(
+    /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}\.[A-Za-z0-9_-]{43}$/,
+    "the link is incomplete or damaged; open it again from the e-mail",
+  );
 
 /** Rule shared by every form that sets a password: it may not be the e-mail itself. */
 export function passwordIsNotEmail(password: string, email: string): boolean {

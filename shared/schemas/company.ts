@@ -1,23 +1,32 @@
 import { z } from "zod";
-import { companyNameSchema } from "./auth.js";
+import { companyNameSchema, withoutControlCharacters } from "./auth.js";
 
 // Every ISO 4217 code the runtime knows (Node and browsers both have Intl).
 const CURRENCIES = new Set(Intl.supportedValuesOf("currency"));
 
-const optionalText = (field: string, max: number) =>
-  z
-    .string({ error: `${field} must be text` })
-    .trim()
-    .max(max, `${field} must be at most ${max} characters`)
+const optionalText = (field: string, max: number, multiline = false) =>
+  withoutControlCharacters(
+    z
+      .string({ error: `${field} must be text` })
+      .trim()
+      .max(max, `${field} must be at most ${max} characters`),
+    field,
+    { multiline },
+  )
     .transform((v) => (v === "" ? null : v))
     .nullable();
 
-const percent = (field: string, max: number) =>
+/** A percentage with at most `decimals` places (the column's scale, so nothing is rounded on save). */
+const percent = (field: string, max: number, decimals: number) =>
   z
     .number({ error: `${field} must be a number` })
     .min(0, `${field} cannot be negative`)
     .max(max, `${field} must be at most ${max} %`)
-    .refine((v) => Number.isFinite(v) && Math.round(v * 1000) === v * 1000, `${field} has too many decimals`);
+    .refine((v) => {
+      // Tolerance for binary floating point: 8.11 × 1000 is 8109.999999999999.
+      const scaled = v * 10 ** decimals;
+      return Math.abs(scaled - Math.round(scaled)) < 1e-6;
+    }, `${field} may have at most ${decimals} decimal places`);
 
 export const CompanySettingsSchema = z.object({
   id: z.string(),
@@ -49,20 +58,20 @@ export const UpdateCompanyInput = z
       .pipe(z.email({ error: "contact e-mail is not a valid address" }).nullable())
       .nullable(),
     phone: optionalText("phone", 40),
-    address: optionalText("address", 500),
+    address: optionalText("address", 500, true),
     currency: z
       .string({ error: "currency must be a three-letter code" })
       .trim()
       .transform((v) => v.toUpperCase())
       .refine((v) => CURRENCIES.has(v), "currency must be an ISO 4217 code such as USD, EUR or AUD"),
-    taxRatePercent: percent("tax rate", 100),
-    defaultMarkupPercent: percent("default markup", 1000),
+    taxRatePercent: percent("tax rate", 100, 3),
+    defaultMarkupPercent: percent("default markup", 1000, 2),
     labourRateMinor: z
       .number({ error: "labour rate must be a number" })
       .int("labour rate must be a whole number of cents")
       .min(0, "labour rate cannot be negative")
       .max(100_000_000, "labour rate is too large"),
-    depositPercent: percent("deposit", 100),
+    depositPercent: percent("deposit", 100, 2),
   })
   .partial();
 export type UpdateCompanyInput = z.input<typeof UpdateCompanyInput>;

@@ -3,9 +3,10 @@ import request from "supertest";
 import { expect } from "vitest";
 import { CSRF_HEADER } from "../../shared/http.js";
 
-// Anything that looks like a stored secret: an argon2 PHC string, or the
-// field names under which hashes are kept. No response may ever carry one.
-const SECRET_PATTERN = /\$argon2(id|i|d)\$|password_?hash|token_?hash/i;
+// Anything that looks like a stored secret: an argon2 PHC string, a SHA-256
+// in hex (how link tokens are kept), or the field names under which hashes
+// are kept. No response may ever carry one.
+const SECRET_PATTERN = /\$argon2(id|i|d)\$|\b[0-9a-f]{64}\b|password_?hash|token_?hash/i;
 
 /** Asserts a response body carries no password or token hash. */
 export function expectNoSecrets(text: string | undefined): void {
@@ -59,18 +60,18 @@ export class ApiClient {
     return this.send(this.agent.delete(path), csrf);
   }
   /** Any method, by name (for route sweeps). */
-  call(method: string, path: string, body?: unknown): Promise<ApiResponse> {
+  call(method: string, path: string, body?: unknown, options: { csrf?: boolean } = {}): Promise<ApiResponse> {
     switch (method) {
       case "GET":
         return this.get(path);
       case "POST":
-        return this.post(path, body);
+        return this.post(path, body, options);
       case "PATCH":
-        return this.patch(path, body);
+        return this.patch(path, body, options);
       case "PUT":
-        return this.put(path, body);
+        return this.put(path, body, options);
       case "DELETE":
-        return this.delete(path);
+        return this.delete(path, options);
       default:
         throw new Error(`no helper for ${method}`);
     }

@@ -32,15 +32,24 @@ export async function companyFixture(db: DataSource, app: TestApp): Promise<Comp
 }
 
 /**
- * Every row that belongs to a company: the company row itself and the rows
- * of every table with a company_id column (found from the catalogue, so new
- * tables are included without touching this).
+ * Every row that belongs to a company: the company row, its people's
+ * accounts and sessions, and the rows of every table with a company_id
+ * column (found from the catalogue, so new tables are included without
+ * touching this).
  */
 export async function companySnapshot(db: DataSource, companyId: string): Promise<Record<string, unknown[]>> {
   const tables: Array<{ table_name: string }> = await db.query(
     `SELECT table_name FROM information_schema.columns WHERE table_schema = 'public' AND column_name = 'company_id' ORDER BY table_name`,
   );
-  const snapshot: Record<string, unknown[]> = { company: await db.query(`SELECT * FROM company WHERE id = $1`, [companyId]) };
+  const snapshot: Record<string, unknown[]> = {
+    company: await db.query(`SELECT * FROM company WHERE id = $1`, [companyId]),
+    // The company's people: their accounts and their sessions.
+    app_user: await db.query(`SELECT u.* FROM app_user u JOIN membership m ON m.user_id = u.id WHERE m.company_id = $1 ORDER BY u.id`, [companyId]),
+    user_session: await db.query(
+      `SELECT s.sid, s.sess::text FROM user_session s JOIN membership m ON s.sess -> 'passport' ->> 'user' = m.user_id::text WHERE m.company_id = $1 ORDER BY s.sid`,
+      [companyId],
+    ),
+  };
   for (const { table_name } of tables) {
     snapshot[table_name] = await db.query(`SELECT * FROM "${table_name}" WHERE company_id = $1 ORDER BY 1, 2`, [companyId]);
   }

@@ -7,6 +7,8 @@ import { User } from "./user.entity.js";
 @Entity({ name: "invitation" })
 @Check("CHK_invitation_role", `"role" IN ('owner', 'estimator', 'installer')`)
 @Index("IDX_invitation_company", ["companyId"])
+// At most one live invitation per address and company: only the newest link works.
+@Index("UQ_invitation_pending", ["companyId", "email"], { unique: true, where: `"accepted_at" IS NULL AND "revoked_at" IS NULL` })
 export class Invitation {
   @PrimaryGeneratedColumn("uuid")
   id!: string;

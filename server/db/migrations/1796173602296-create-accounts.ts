@@ -54,6 +54,10 @@ export class CreateAccounts1796173602296 implements MigrationInterface {
             CREATE INDEX "IDX_invitation_company" ON "invitation" ("company_id")
         `);
         await queryRunner.query(`
+            CREATE UNIQUE INDEX "UQ_invitation_pending" ON "invitation" ("company_id", "email")
+            WHERE "accepted_at" IS NULL AND "revoked_at" IS NULL
+        `);
+        await queryRunner.query(`
             CREATE TABLE "membership" (
                 "company_id" uuid NOT NULL,
                 "user_id" uuid NOT NULL,
@@ -219,6 +223,9 @@ export class CreateAccounts1796173602296 implements MigrationInterface {
         `);
         await queryRunner.query(`
             DROP TABLE "membership"
+        `);
+        await queryRunner.query(`
+            DROP INDEX "public"."UQ_invitation_pending"
         `);
         await queryRunner.query(`
             DROP INDEX "public"."IDX_invitation_company"

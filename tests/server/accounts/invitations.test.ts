@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { Invitation, Membership, User } from "../../../server/db/entities/index.js";
 import { createApp } from "../../../server/app.js";
-import { ApiClient } from "../../support/api.js";
+import { ApiClient, sessionIdSetBy } from "../../support/api.js";
 import { addMember, signUpCompany, TEST_PASSWORD, uniqueEmail } from "../../support/accounts.js";
 import { useTestApp } from "../../support/app.js";
 import { linkIn, mailsTo, tokenOf, waitForMail } from "../../support/mail.js";
@@ -46,6 +46,45 @@ describe("invitations: e-mailed, single use, seven days", () => {
 
     // The invited person signs in later with the password they chose.
     expect((await new ApiClient(t.app.app).post("/api/auth/sign-in", { email, password: TEST_PASSWORD })).status).toBe(200);
+  });
+
+  it("two accepts of one link at the same moment: one account, one membership", async () => {
+    const owner = await signUpCompany(t.app);
+    const email = uniqueEmail("race");
+    const token = await invite(owner.api, email);
+    const [one, two] = await Promise.all([
+      new ApiClient(t.app.app).post("/api/invitations/accept", { token, name: "First", password: TEST_PASSWORD }),
+      new ApiClient(t.app.app).post("/api/invitations/accept", { token, name: "Second", password: TEST_PASSWORD }),
+    ]);
+    const statuses = [one.status, two.status].sort();
+    expect(statuses[0]).toBe(201);
+    expect([409, 410]).toContain(statuses[1]);
+    expect(await t.db.getRepository(User).countBy({ email })).toBe(1);
+    expect(await t.db.getRepository(Membership).countBy({ companyId: owner.companyId })).toBe(2);
+  });
+
+  it("two invitations to one address at the same moment leave one live link", async () => {
+    const owner = await signUpCompany(t.app);
+    const email = uniqueEmail("double");
+    const responses = await Promise.all([
+      owner.api.post("/api/invitations", { email, role: "installer" }),
+      owner.api.post("/api/invitations", { email, role: "estimator" }),
+    ]);
+    expect(responses.map((r) => r.status)).toEqual([201, 201]);
+    const live = await t.db.query(`SELECT id FROM invitation WHERE company_id = $1 AND email = $2 AND accepted_at IS NULL AND revoked_at IS NULL`, [owner.companyId, email]);
+    expect(live).toHaveLength(1);
+  });
+
+  it("accepting gives a new session id, not the one the browser had", async () => {
+    const owner = await signUpCompany(t.app);
+    const email = uniqueEmail("fixation");
+    const token = await invite(owner.api, email);
+    const before = sessionIdSetBy(await owner.api.post("/api/auth/sign-in", { email: owner.email, password: TEST_PASSWORD }));
+    const after = sessionIdSetBy(await owner.api.post("/api/invitations/accept", { token, name: "Fi", password: TEST_PASSWORD }));
+    expect(before).toBeDefined();
+    expect(after).toBeDefined();
+    expect(after).not.toBe(before);
+    expect((await owner.api.get("/api/auth/session")).body.user.email).toBe(email);
   });
 
   it("adds a membership to an existing account, which must give its own password", async () => {

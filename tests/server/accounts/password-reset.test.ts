@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { PasswordReset, User } from "../../../server/db/entities/index.js";
 import { RESET_REQUESTED } from "../../../server/routes/auth.routes.js";
-import { ApiClient } from "../../support/api.js";
+import { ApiClient, sessionIdSetBy } from "../../support/api.js";
 import { signUpCompany, TEST_PASSWORD, uniqueEmail } from "../../support/accounts.js";
 import { useTestApp } from "../../support/app.js";
 import { linkIn, mailsTo, tokenOf, waitForMail } from "../../support/mail.js";
@@ -54,6 +54,30 @@ describe("forgot password → e-mailed one-hour link → new password", () => {
     expect(again.status).toBe(410);
     expect(again.body.error).toMatchObject({ code: "gone", details: { field: "token" } });
     expect((await t.db.getRepository(User).findOneByOrFail({ email: owner.email })).passwordHash).toBe(hashAfterFirst);
+  });
+
+  it("two uses of one link at the same moment: one wins, the other gets 410", async () => {
+    const owner = await signUpCompany(t.app);
+    const token = await requestLink(owner.email);
+    const [one, two] = await Promise.all([
+      new ApiClient(t.app.app).post("/api/auth/reset-password", { token, password: "first-new-passphrase" }),
+      new ApiClient(t.app.app).post("/api/auth/reset-password", { token, password: "second-new-passphrase" }),
+    ]);
+    expect([one.status, two.status].sort()).toEqual([200, 410]);
+    const winner = one.status === 200 ? "first-new-passphrase" : "second-new-passphrase";
+    expect((await new ApiClient(t.app.app).post("/api/auth/sign-in", { email: owner.email, password: winner })).status).toBe(200);
+  });
+
+  it("the reset signs in with a new session id", async () => {
+    const owner = await signUpCompany(t.app);
+    const token = await requestLink(owner.email);
+    const browser = new ApiClient(t.app.app);
+    const before = sessionIdSetBy(await browser.post("/api/auth/sign-in", { email: owner.email, password: TEST_PASSWORD }));
+    const after = sessionIdSetBy(await browser.post("/api/auth/reset-password", { token, password: NEW_PASSWORD }));
+    expect(before).toBeDefined();
+    expect(after).toBeDefined();
+    expect(after).not.toBe(before);
+    expect((await browser.get("/api/auth/session")).body.signedIn).toBe(true);
   });
 
   it("refuses an expired link (older than one hour) with 410", async () => {

@@ -3,7 +3,7 @@ import { listRoutes } from "../../../server/routes/route-table.js";
 import type { ApiClient } from "../../support/api.js";
 import { TEST_PASSWORD, uniqueEmail } from "../../support/accounts.js";
 import { useTestApp } from "../../support/app.js";
-import { companyFixture, type CompanyFixture } from "../../support/fixtures.js";
+import { companyFixture, companySnapshot, type CompanyFixture } from "../../support/fixtures.js";
 
 type Who = "anonymous" | "installer" | "estimator" | "owner";
 const WHO: Who[] = ["anonymous", "installer", "estimator", "owner"];
@@ -71,7 +71,10 @@ describe("role matrix: every route × role gets the expected status", () => {
       const got: Record<string, number> = {};
       for (const who of WHO) {
         const { path = template, body } = row.request(f);
+        const before = await companySnapshot(t.db, f.companyId);
         got[who] = (await clients[who].call(method, path, body)).status;
+        // A refused caller changed nothing of the company's.
+        if (got[who] === 401 || got[who] === 403) expect(await companySnapshot(t.db, f.companyId), `${who} ${key}`).toEqual(before);
       }
       expect(got).toEqual(row.expect);
     });

@@ -59,6 +59,21 @@ describe("team: roles, removal and the last Owner", () => {
     expect(await t.db.getRepository(Membership).countBy({ companyId: a.companyId, role: "owner" })).toBe(1);
   });
 
+  it("a person removed from the company they are working in is not silently moved into another", async () => {
+    const a = await signUpCompany(t.app, "Company A");
+    const b = await signUpCompany(t.app, "Company B");
+    // B's owner is also an Owner in A and is working in A.
+    await t.db.getRepository(Membership).insert({ companyId: a.companyId, userId: b.userId, role: "owner" });
+    expect((await b.api.post("/api/auth/switch-company", { companyId: a.companyId })).body.company.name).toBe("Company A");
+    expect((await a.api.delete(`/api/members/${b.userId}`)).status).toBe(204);
+    // The settings form that was open for A must not land on B.
+    const late = await b.api.patch("/api/company", { name: "Meant for A" });
+    expect(late.status).toBe(401);
+    expect((await t.db.getRepository(Company).findOneByOrFail({ id: b.companyId })).name).toBe("Company B");
+    // From then on the session works in the company that remains.
+    expect((await b.api.get("/api/auth/session")).body).toMatchObject({ signedIn: true, company: { name: "Company B" } });
+  });
+
   it("removing a member ends their access at once; the account stays", async () => {
     const owner = await signUpCompany(t.app);
     const estimator = await addMember(t.db, t.app, owner.companyId, "estimator");
@@ -110,6 +125,33 @@ describe("company settings", () => {
     expect((await owner.api.patch("/api/company", { licenceNumber: "" })).body.licenceNumber).toBeNull();
 
     expect((await installer.api.patch("/api/company", { name: "Hijack" })).status).toBe(403);
+  });
+
+  it("keeps the decimals people type, without float surprises or silent rounding", async () => {
+    const owner = await signUpCompany(t.app);
+    // 8.11 × 1000 is 8109.999999999999 in binary floating point; it is still three decimals.
+    const ok = await owner.api.patch("/api/company", { taxRatePercent: 8.11, defaultMarkupPercent: 12.35, depositPercent: 33.33 });
+    expect(ok.status).toBe(200);
+    expect(ok.body).toMatchObject({ taxRatePercent: 8.11, defaultMarkupPercent: 12.35, depositPercent: 33.33 });
+    expect((await owner.api.get("/api/company")).body).toMatchObject({ taxRatePercent: 8.11, defaultMarkupPercent: 12.35, depositPercent: 33.33 });
+    expect((await owner.api.patch("/api/company", { taxRatePercent: 8.125 })).body.taxRatePercent).toBe(8.125);
+    // More places than the column keeps is refused, not rounded.
+    const markup = await owner.api.patch("/api/company", { defaultMarkupPercent: 12.345 });
+    expect(markup.status).toBe(400);
+    expect(markup.body.error.details.fields.defaultMarkupPercent).toMatch(/2 decimal places/);
+    expect((await owner.api.patch("/api/company", { taxRatePercent: 8.1255 })).status).toBe(400);
+    expect((await owner.api.get("/api/company")).body.defaultMarkupPercent).toBe(12.35);
+  });
+
+  it("refuses control characters in text (PostgreSQL cannot store NUL), naming the field", async () => {
+    const owner = await signUpCompany(t.app);
+    for (const [field, value] of [["name", "Bad\u0000Co"], ["phone", "555\u0007"], ["licenceNumber", "A\nB"]] as const) {
+      const response = await owner.api.patch("/api/company", { [field]: value });
+      expect(response.status, field).toBe(400);
+      expect(response.body.error.details.fields[field]).toMatch(/control character/);
+    }
+    // An address may have lines.
+    expect((await owner.api.patch("/api/company", { address: "1 Quay Road\nHarbourside" })).body.address).toBe("1 Quay Road\nHarbourside");
   });
 
   it("refuses bad settings naming the field, and saves nothing", async () => {
