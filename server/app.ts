@@ -20,6 +20,11 @@ import type { AccountDeps } from "./routes/deps.js";
 import { healthRoutes } from "./routes/health.routes.js";
 import { invitationRoutes } from "./routes/invitations.routes.js";
 import { memberRoutes } from "./routes/members.routes.js";
+import { attachmentRoutes } from "./routes/attachments.routes.js";
+import { clientRoutes } from "./routes/clients.routes.js";
+import { jobRoutes } from "./routes/jobs.routes.js";
+import { limitProfileRoutes } from "./routes/limit-profiles.routes.js";
+import { systemRoutes } from "./routes/systems.routes.js";
 
 export interface AppOptions {
   db: DataSource;
@@ -107,6 +112,11 @@ export function createApp(options: AppOptions): Express {
   api.use("/company", companyRoutes(deps));
   api.use("/members", memberRoutes(deps));
   api.use("/invitations", invitationRoutes(deps));
+  api.use("/clients", clientRoutes(deps));
+  api.use("/jobs", jobRoutes(deps));
+  api.use("/systems", systemRoutes(deps));
+  api.use("/limit-profiles", limitProfileRoutes(deps));
+  api.use("/attachments", attachmentRoutes(deps));
   api.use(apiNotFound);
   app.use("/api", api);
 

@@ -13,6 +13,11 @@ export const PERMISSIONS = {
   "members:write": ["owner"],
   "invitations:read": ["owner"],
   "invitations:write": ["owner"],
+  /** Clients, jobs, systems and attachments: everyone reads, Installers change nothing. */
+  "jobs:read": ["owner", "estimator", "installer"],
+  "jobs:write": ["owner", "estimator"],
+  /** Limit profiles are company policy: the Owner sets them. */
+  "limits:write": ["owner"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

@@ -1,6 +1,10 @@
 import type { DataSource } from "typeorm";
 import { hashPassword } from "../auth/passwords.js";
-import { Company, Membership, User } from "./entities/index.js";
+import { readFileSync } from "node:fs";
+import { Client, Company, Job, LimitProfile, Membership, System, User } from "./entities/index.js";
+import { ensureDefaultLimitProfiles } from "../services/limit-profile.service.js";
+import { solveDocument, summarise } from "../services/system.service.js";
+import type { SystemInput } from "../../shared/engine/schema.js";
 import type { Role } from "../../shared/schemas/role.js";
 
 // The demo is our own invented firm; any likeness to a real one is accidental.
@@ -55,6 +59,86 @@ export async function seedDemo(db: DataSource): Promise<void> {
         .orIgnore()
         .execute();
       await tx.createQueryBuilder().insert().into(Membership).values({ companyId: DEMO_COMPANY_ID, userId: user.id, role: user.role }).orIgnore().execute();
+    }
+    await ensureDefaultLimitProfiles(tx, DEMO_COMPANY_ID);
+  });
+  await seedDemoJobs(db);
+}
+
+const example = (name: string) => JSON.parse(readFileSync(new URL(`../../shared/engine/examples/${name}.json`, import.meta.url), "utf8")) as SystemInput;
+
+/** The cabin as the demo estimator left it: feeders already up-sized, so every load passes. */
+function demoCabin(): SystemInput {
+  const doc = example("cabin-24v");
+  const sizes: Record<string, string> = { "feed-shed": "50 mm2", "shed-pump": "50 mm2", "cabin-studio": "4 mm2" };
+  return { ...doc, name: "Cabin 24 V house system", runs: doc.runs.map((r) => ({ ...r, size: sizes[r.id] ?? r.size })) };
+}
+
+const demoId = (n: number) => `5e1d0000-0000-4000-8000-0000000b${String(n).padStart(4, "0")}`;
+export const DEMO_CLIENTS = [
+  { id: demoId(1), name: "Juniper Holloway (demo client)", email: "juniper.holloway@client.test", phone: "+1 555 0177", billingAddress: "4 Larchwood Lane, Kestrel Bay (invented)" },
+  { id: demoId(2), name: "Brackenridge Signal Co-op (demo client)", email: "works@brackenridge.test", phone: "+1 555 0190", billingAddress: "Unit 7, Old Quarry Road, Kestrel Bay (invented)" },
+];
+export const DEMO_JOBS = [
+  {
+    id: demoId(11),
+    clientId: demoId(1),
+    title: "Off-grid cabin: 24 V bank and well pump",
+    siteAddress: "Larchwood cabin plot, Kestrel Bay uplands (invented)",
+    status: "quoted" as const,
+    notes: "Pump is 40 m from the bank; the client wants lights in the studio too.",
+    system: { id: demoId(21), name: "Cabin 24 V house system", document: demoCabin },
+  },
+  {
+    id: demoId(12),
+    clientId: demoId(1),
+    title: "Garden path lighting, 18 fixtures",
+    siteAddress: "4 Larchwood Lane, Kestrel Bay (invented)",
+    status: "lead" as const,
+    notes: "First layout on 12 AWG as the client asked; the far fixtures are too dim. Auto-size before quoting.",
+    system: { id: demoId(22), name: "Path lights 12 V daisy chain", document: () => ({ ...example("garden-12v"), name: "Path lights 12 V daisy chain" }) },
+  },
+  {
+    id: demoId(13),
+    clientId: demoId(2),
+    title: "48 V telecom and security cabinet",
+    siteAddress: "Relay hut, Old Quarry Road, Kestrel Bay (invented)",
+    status: "won" as const,
+    notes: "Radio, camera and switch on a 48 V rectifier with battery backup.",
+    system: { id: demoId(23), name: "Cabinet 48 V DC plant", document: () => ({ ...example("telecom-48v"), name: "Cabinet 48 V DC plant" }) },
+  },
+];
+
+/** Two clients and three jobs of an invented practice, each with a system solved at seeding. Never overwrites. */
+async function seedDemoJobs(db: DataSource): Promise<void> {
+  const estimator = DEMO_USERS.find((u) => u.role === "estimator")!.id;
+  await db.transaction(async (tx) => {
+    const hasEstimator = await tx.existsBy(User, { id: estimator });
+    const general = await tx.findOneBy(LimitProfile, { companyId: DEMO_COMPANY_ID, name: "General — 3 % branch, 5 % total" });
+    for (const client of DEMO_CLIENTS) {
+      await tx.createQueryBuilder().insert().into(Client).values({ ...client, companyId: DEMO_COMPANY_ID }).orIgnore().execute();
+    }
+    for (const { system, ...job } of DEMO_JOBS) {
+      if (await tx.existsBy(Job, { id: job.id })) continue;
+      const createdById = hasEstimator ? estimator : null;
+      await tx.createQueryBuilder().insert().into(Job).values({ ...job, companyId: DEMO_COMPANY_ID, createdById }).orIgnore().execute();
+      const document = system.document();
+      const limitProfileId = general?.id ?? null;
+      const result = await solveDocument(tx, DEMO_COMPANY_ID, limitProfileId, document);
+      await tx.save(
+        tx.create(System, {
+          id: system.id,
+          companyId: DEMO_COMPANY_ID,
+          jobId: job.id,
+          name: system.name,
+          nominalVoltage: document.nominalVoltage,
+          units: document.units,
+          limitProfileId,
+          document: document as unknown as Record<string, unknown>,
+          lastSolve: summarise(result),
+          updatedById: createdById,
+        }),
+      );
     }
   });
 }

@@ -3,6 +3,7 @@ import { PASSWORD_IS_EMAIL, passwordIsNotEmail } from "../../shared/schemas/auth
 import { hashPassword } from "../auth/passwords.js";
 import { Company, Membership, User } from "../db/entities/index.js";
 import { AppError } from "../errors.js";
+import { ensureDefaultLimitProfiles } from "./limit-profile.service.js";
 
 export interface SignUpProps {
   companyName: string;
@@ -28,6 +29,7 @@ export async function signUp(db: DataSource, props: SignUpProps): Promise<User> 
       const company = await tx.save(tx.create(Company, { name: props.companyName }));
       const user = await tx.save(tx.create(User, { email: props.email, name: props.name, passwordHash }));
       await tx.insert(Membership, { companyId: company.id, userId: user.id, role: "owner" });
+      await ensureDefaultLimitProfiles(tx, company.id);
       return user;
     });
   } catch (error) {

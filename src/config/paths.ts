@@ -1,8 +1,11 @@
 // Every client route, with a typed way to build its link.
 export const paths = {
   dashboard: { path: "/", getHref: () => "/" },
-  jobs: { path: "/jobs", getHref: () => "/jobs" },
+  jobs: { path: "/jobs", getHref: (query?: string) => (query ? `/jobs?${query}` : "/jobs") },
+  job: { path: "/jobs/:jobId", getHref: (jobId: string) => `/jobs/${jobId}` },
+  system: { path: "/jobs/:jobId/systems/:systemId", getHref: (jobId: string, systemId: string) => `/jobs/${jobId}/systems/${systemId}` },
   clients: { path: "/clients", getHref: () => "/clients" },
+  limitProfiles: { path: "/settings/limit-profiles", getHref: () => "/settings/limit-profiles" },
   priceList: { path: "/price-list", getHref: () => "/price-list" },
   team: { path: "/team", getHref: () => "/team" },
   settings: { path: "/settings", getHref: () => "/settings" },

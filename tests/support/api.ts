@@ -59,6 +59,16 @@ export class ApiClient {
   delete(path: string, { csrf = true } = {}): Promise<ApiResponse> {
     return this.send(this.agent.delete(path), csrf);
   }
+  /** A multipart/form-data POST: form fields plus one file (what a browser's file input sends). */
+  upload(path: string, file: { field?: string; content: Buffer | string; name: string; type?: string } | null, fields: Record<string, string> = {}, { csrf = true } = {}): Promise<ApiResponse> {
+    const test = this.agent.post(path);
+    for (const [name, value] of Object.entries(fields)) test.field(name, value);
+    if (file) {
+      const content = typeof file.content === "string" ? Buffer.from(file.content) : file.content;
+      test.attach(file.field ?? "file", content, { filename: file.name, contentType: file.type ?? "application/octet-stream" });
+    }
+    return this.send(test, csrf);
+  }
   /** Any method, by name (for route sweeps). */
   call(method: string, path: string, body?: unknown, options: { csrf?: boolean } = {}): Promise<ApiResponse> {
     switch (method) {

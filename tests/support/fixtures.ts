@@ -4,6 +4,7 @@ import { ApiClient } from "./api.js";
 import { addMember, signUpCompany, uniqueEmail, type SignedInOwner } from "./accounts.js";
 import type { TestApp } from "./app.js";
 import { waitForMail } from "./mail.js";
+import { createJobWork, type JobWork } from "./jobs.js";
 
 /** A company with one person of each role, a spare member to act on, and a pending invitation. */
 export interface CompanyFixture {
@@ -15,6 +16,8 @@ export interface CompanyFixture {
   spare: SignedInOwner;
   invitationId: string;
   anonymous: ApiClient;
+  /** The company's clients, job, system, limit profile and attachment. */
+  work: JobWork;
 }
 
 export async function companyFixture(db: DataSource, app: TestApp): Promise<CompanyFixture> {
@@ -28,7 +31,8 @@ export async function companyFixture(db: DataSource, app: TestApp): Promise<Comp
   const invited = await owner.api.post("/api/invitations", { email, role: "installer" });
   expect(invited.status).toBe(201);
   await waitForMail(email);
-  return { companyId: owner.companyId, owner, estimator, installer, spare, invitationId: invited.body.id, anonymous: new ApiClient(app.app) };
+  const work = await createJobWork(owner.api);
+  return { companyId: owner.companyId, owner, estimator, installer, spare, invitationId: invited.body.id, anonymous: new ApiClient(app.app), work };
 }
 
 /**

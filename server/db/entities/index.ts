@@ -1,9 +1,14 @@
+import { Attachment } from "./attachment.entity.js";
+import { Client } from "./client.entity.js";
 import { Company } from "./company.entity.js";
 import { Invitation } from "./invitation.entity.js";
+import { Job } from "./job.entity.js";
+import { LimitProfile } from "./limit-profile.entity.js";
 import { Membership } from "./membership.entity.js";
 import { PasswordReset } from "./password-reset.entity.js";
+import { System } from "./system.entity.js";
 import { User } from "./user.entity.js";
 
 /** Every entity, in one list for the DataSource. */
-export const entities = [Company, User, Membership, Invitation, PasswordReset];
-export { Company, Invitation, Membership, PasswordReset, User };
+export const entities = [Company, User, Membership, Invitation, PasswordReset, Client, Job, LimitProfile, System, Attachment];
+export { Attachment, Client, Company, Invitation, Job, LimitProfile, Membership, PasswordReset, System, User };

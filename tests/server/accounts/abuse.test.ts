@@ -7,6 +7,7 @@ import { ApiClient } from "../../support/api.js";
 import { signUpCompany, TEST_PASSWORD, uniqueEmail } from "../../support/accounts.js";
 import { startTestApp, useTestApp } from "../../support/app.js";
 import { openTestDb } from "../../support/test-db.js";
+import { createJobWork, exampleSystem } from "../../support/jobs.js";
 
 describe("rate limits: 10 per 15 minutes, per IP and per e-mail", () => {
   let db: DataSource;
@@ -207,6 +208,18 @@ describe("hostile input on every route that reads a body", () => {
     "POST /api/invitations": { email: "hostile-invite@example.test", role: "installer" },
     "POST /api/invitations/lookup": { token: `00000000-0000-4000-8000-000000000000.${"A".repeat(43)}` },
     "POST /api/invitations/accept": { token: `00000000-0000-4000-8000-000000000000.${"A".repeat(43)}`, name: "N", password: TEST_PASSWORD },
+    "POST /api/clients": { name: "C", email: "c@client.test", phone: "1", billingAddress: "A", notes: "N" },
+    "PATCH /api/clients/:clientId": { name: "C", email: "c@client.test", phone: "1", billingAddress: "A", notes: "N" },
+    "POST /api/jobs": { clientId: "5e1d0000-0000-4000-8000-00000000d001", title: "T", siteAddress: "S", status: "lead", notes: "N" },
+    "PATCH /api/jobs/:jobId": { title: "T", siteAddress: "S", status: "won", notes: "N" },
+    "POST /api/jobs/:jobId/systems": { name: "S", nominalVoltage: 24, units: "metric", limitProfileId: null, document: exampleSystem("telecom-48v") },
+    "POST /api/jobs/:jobId/attachments": { file: "x" },
+    "PUT /api/systems/:systemId": { version: 1, name: "S", limitProfileId: null, document: exampleSystem("cabin-24v") },
+    "POST /api/systems/:systemId/solve": { document: exampleSystem("cabin-24v") },
+    "POST /api/systems/:systemId/autosize": { document: exampleSystem("telecom-48v") },
+    "POST /api/systems/:systemId/runs.csv": { version: 1, file: "id,from,to,length,size" },
+    "POST /api/limit-profiles": { name: "L", branchPercent: 3, totalPercent: 5, criticalPercent: 3, nearFraction: 0.8, notes: "N" },
+    "PATCH /api/limit-profiles/:profileId": { name: "L", branchPercent: 3, totalPercent: 5, criticalPercent: 3, nearFraction: 0.8, notes: "N" },
   };
   const HOSTILE: unknown[] = [
     "a\u0000b",
@@ -229,12 +242,14 @@ describe("hostile input on every route that reads a body", () => {
   it("never answers 500: every refusal is a 4xx in the error shape", async () => {
     const { listRoutes } = await import("../../../server/routes/route-table.js");
     const owner = await signUpCompany(t.app);
+    const work = await createJobWork(owner.api);
+    const ids: Record<string, string> = { userId: owner.userId, clientId: work.clientId, jobId: work.jobId, systemId: work.systemId, profileId: work.profileId };
     const writes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && ["POST", "PATCH", "PUT"].includes(r.method) && r.path !== "/api/auth/sign-out");
     expect(writes.map((r) => `${r.method} ${r.path}`).filter((key) => !(key in VALID)), "routes without a VALID body").toEqual([]);
     let requests = 0;
     for (const route of writes) {
       const key = `${route.method} ${route.path}`;
-      const path = route.path.replace(":userId", owner.userId);
+      const path = route.path.replace(/:(\w+)/g, (_, name: string) => ids[name] ?? `:${name}`);
       const bodies = [...WHOLE_BODIES];
       for (const field of Object.keys(VALID[key])) for (const value of HOSTILE) bodies.push({ ...VALID[key], [field]: value });
       for (const body of bodies) {

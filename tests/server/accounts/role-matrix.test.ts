@@ -4,20 +4,39 @@ import type { ApiClient } from "../../support/api.js";
 import { TEST_PASSWORD, uniqueEmail } from "../../support/accounts.js";
 import { useTestApp } from "../../support/app.js";
 import { companyFixture, companySnapshot, type CompanyFixture } from "../../support/fixtures.js";
+import { TINY_PNG } from "../../support/jobs.js";
 
 type Who = "anonymous" | "installer" | "estimator" | "owner";
 const WHO: Who[] = ["anonymous", "installer", "estimator", "owner"];
 // A well-formed link token that names nothing.
 const NO_SUCH_TOKEN = `00000000-0000-4000-8000-000000000000.${"A".repeat(43)}`;
 
+type Upload = { file: { content: Buffer | string; name: string; type?: string }; fields?: Record<string, string> };
 interface Row {
-  request: (f: CompanyFixture) => { path?: string; body?: unknown };
+  /** Called once per caller, just before its request (so a row can make a fresh thing to delete). */
+  request: (f: CompanyFixture) => { path?: string; body?: unknown; upload?: Upload } | Promise<{ path?: string; body?: unknown; upload?: Upload }>;
   expect: Record<Who, number>;
 }
 
 const all = (status: number): Record<Who, number> => ({ anonymous: status, installer: status, estimator: status, owner: status });
 const signedIn = (status: number): Record<Who, number> => ({ anonymous: 401, installer: status, estimator: status, owner: status });
 const ownerOnly = (status: number): Record<Who, number> => ({ anonymous: 401, installer: 403, estimator: 403, owner: status });
+/** Owners and Estimators change jobs; Installers only read. */
+const writers = (status: number): Record<Who, number> => ({ anonymous: 401, installer: 403, estimator: status, owner: status });
+
+// Fresh things to delete or save, one per caller, made by the company's Owner.
+async function freshClient(f: CompanyFixture) {
+  return (await f.owner.api.post("/api/clients", { name: "Matrix spare client" })).body.id as string;
+}
+async function freshJob(f: CompanyFixture) {
+  return (await f.owner.api.post("/api/jobs", { clientId: f.work.clientId, title: "Matrix job" })).body.id as string;
+}
+async function freshSystem(f: CompanyFixture) {
+  return (await f.owner.api.post(`/api/jobs/${f.work.jobId}/systems`, { name: "Matrix system" })).body.id as string;
+}
+async function currentSystem(f: CompanyFixture) {
+  return (await f.owner.api.get(`/api/systems/${f.work.systemId}`)).body as { version: number; document: unknown };
+}
 
 // Every /api route × who is asking → the status it must get, with a valid request.
 // Installers read only; Estimators do not administer the team or the company.
@@ -44,6 +63,55 @@ const MATRIX: Record<string, Row> = {
   "DELETE /api/invitations/:id": { request: (f) => ({ path: `/api/invitations/${f.invitationId}` }), expect: ownerOnly(204) },
   "POST /api/invitations/lookup": { request: () => ({ body: { token: NO_SUCH_TOKEN } }), expect: all(404) },
   "POST /api/invitations/accept": { request: () => ({ body: { token: NO_SUCH_TOKEN, name: "N", password: TEST_PASSWORD } }), expect: all(404) },
+  "GET /api/clients": { request: () => ({}), expect: signedIn(200) },
+  "POST /api/clients": { request: () => ({ body: { name: "Matrix client" } }), expect: writers(201) },
+  "GET /api/clients/:clientId": { request: (f) => ({ path: `/api/clients/${f.work.clientId}` }), expect: signedIn(200) },
+  "PATCH /api/clients/:clientId": { request: (f) => ({ path: `/api/clients/${f.work.clientId}`, body: { phone: "+1 555 0199" } }), expect: writers(200) },
+  "DELETE /api/clients/:clientId": { request: async (f) => ({ path: `/api/clients/${await freshClient(f)}` }), expect: writers(204) },
+  "GET /api/jobs": { request: () => ({}), expect: signedIn(200) },
+  "POST /api/jobs": { request: (f) => ({ body: { clientId: f.work.clientId, title: "Matrix job" } }), expect: writers(201) },
+  "GET /api/jobs/:jobId": { request: (f) => ({ path: `/api/jobs/${f.work.jobId}` }), expect: signedIn(200) },
+  "PATCH /api/jobs/:jobId": { request: (f) => ({ path: `/api/jobs/${f.work.jobId}`, body: { status: "quoted" } }), expect: writers(200) },
+  "DELETE /api/jobs/:jobId": { request: async (f) => ({ path: `/api/jobs/${await freshJob(f)}` }), expect: writers(204) },
+  "POST /api/jobs/:jobId/systems": { request: (f) => ({ path: `/api/jobs/${f.work.jobId}/systems`, body: { name: "Matrix system" } }), expect: writers(201) },
+  "GET /api/jobs/:jobId/attachments": { request: (f) => ({ path: `/api/jobs/${f.work.jobId}/attachments` }), expect: signedIn(200) },
+  "POST /api/jobs/:jobId/attachments": {
+    request: (f) => ({ path: `/api/jobs/${f.work.jobId}/attachments`, upload: { file: { content: TINY_PNG, name: "matrix.png", type: "image/png" } } }),
+    expect: writers(201),
+  },
+  "GET /api/systems/:systemId": { request: (f) => ({ path: `/api/systems/${f.work.systemId}` }), expect: signedIn(200) },
+  "PUT /api/systems/:systemId": {
+    request: async (f) => {
+      const { version, document } = await currentSystem(f);
+      return { path: `/api/systems/${f.work.systemId}`, body: { version, document } };
+    },
+    expect: writers(200),
+  },
+  "DELETE /api/systems/:systemId": { request: async (f) => ({ path: `/api/systems/${await freshSystem(f)}` }), expect: writers(204) },
+  "POST /api/systems/:systemId/solve": { request: (f) => ({ path: `/api/systems/${f.work.systemId}/solve`, body: {} }), expect: signedIn(200) },
+  "POST /api/systems/:systemId/autosize": { request: (f) => ({ path: `/api/systems/${f.work.systemId}/autosize`, body: {} }), expect: writers(200) },
+  "GET /api/systems/:systemId/runs.csv": { request: (f) => ({ path: `/api/systems/${f.work.systemId}/runs.csv` }), expect: signedIn(200) },
+  "POST /api/systems/:systemId/runs.csv": {
+    request: async (f) => {
+      const { version } = await currentSystem(f);
+      const csv = (await f.owner.api.get(`/api/systems/${f.work.systemId}/runs.csv`)).text;
+      return { path: `/api/systems/${f.work.systemId}/runs.csv`, upload: { file: { content: csv, name: "runs.csv", type: "text/csv" }, fields: { version: String(version) } } };
+    },
+    expect: writers(200),
+  },
+  "GET /api/limit-profiles": { request: () => ({}), expect: signedIn(200) },
+  "POST /api/limit-profiles": { request: () => ({ body: { name: `Matrix ${Math.random().toString(36).slice(2, 8)}`, branchPercent: 3, totalPercent: 5, criticalPercent: 3 } }), expect: ownerOnly(201) },
+  "GET /api/limit-profiles/:profileId": { request: (f) => ({ path: `/api/limit-profiles/${f.work.profileId}` }), expect: signedIn(200) },
+  "PATCH /api/limit-profiles/:profileId": { request: (f) => ({ path: `/api/limit-profiles/${f.work.profileId}`, body: { notes: "Matrix" } }), expect: ownerOnly(200) },
+  "DELETE /api/limit-profiles/:profileId": { request: (f) => ({ path: `/api/limit-profiles/${f.work.profileId}` }), expect: ownerOnly(204) },
+  "GET /api/attachments/:attachmentId/file": { request: (f) => ({ path: `/api/attachments/${f.work.attachmentId}/file` }), expect: signedIn(200) },
+  "DELETE /api/attachments/:attachmentId": {
+    request: async (f) => {
+      const photo = await f.owner.api.upload(`/api/jobs/${f.work.jobId}/attachments`, { content: TINY_PNG, name: "doomed.png", type: "image/png" });
+      return { path: `/api/attachments/${photo.body.id}` };
+    },
+    expect: writers(204),
+  },
 };
 
 describe("role matrix: every route × role gets the expected status", () => {
@@ -70,9 +138,9 @@ describe("role matrix: every route × role gets the expected status", () => {
       const clients: Record<Who, ApiClient> = { anonymous: f.anonymous, installer: f.installer.api, estimator: f.estimator.api, owner: f.owner.api };
       const got: Record<string, number> = {};
       for (const who of WHO) {
-        const { path = template, body } = row.request(f);
+        const { path = template, body, upload } = await row.request(f);
         const before = await companySnapshot(t.db, f.companyId);
-        got[who] = (await clients[who].call(method, path, body)).status;
+        got[who] = (upload ? await clients[who].upload(path, upload.file, upload.fields) : await clients[who].call(method, path, body)).status;
         // A refused caller changed nothing of the company's.
         if (got[who] === 401 || got[who] === 403) expect(await companySnapshot(t.db, f.companyId), `${who} ${key}`).toEqual(before);
       }

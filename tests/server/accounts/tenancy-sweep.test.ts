@@ -2,17 +2,30 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { listRoutes } from "../../../server/routes/route-table.js";
 import { companyFixture, companySnapshot, type CompanyFixture } from "../../support/fixtures.js";
 import { useTestApp } from "../../support/app.js";
+import { TINY_PNG } from "../../support/jobs.js";
 
 // For each route parameter, which of company A's resources to aim at. A new
 // route with a new parameter fails the sweep until it is added here.
 const TARGETS: Record<string, (a: CompanyFixture) => string> = {
   userId: (a) => a.spare.userId,
   id: (a) => a.invitationId,
+  clientId: (a) => a.work.clientId,
+  jobId: (a) => a.work.jobId,
+  systemId: (a) => a.work.systemId,
+  profileId: (a) => a.work.profileId,
+  attachmentId: (a) => a.work.attachmentId,
 };
 
 // A valid body for routes that read one, so the answer is about the id and not the input.
 const BODIES: Record<string, unknown> = {
   "PATCH /api/members/:userId": { role: "installer" },
+  "PATCH /api/clients/:clientId": { name: "Taken over" },
+  "PATCH /api/jobs/:jobId": { title: "Taken over" },
+  "PUT /api/systems/:systemId": { version: 1, document: { format: "runwright-system/1", units: "metric", nominalVoltage: 12, points: [], sources: [], runs: [], loads: [] } },
+  "POST /api/systems/:systemId/solve": {},
+  "POST /api/systems/:systemId/autosize": {},
+  "POST /api/jobs/:jobId/systems": { name: "Planted" },
+  "PATCH /api/limit-profiles/:profileId": { notes: "Taken over" },
 };
 
 describe("tenancy sweep: a member of company B never reaches company A's resources", () => {
@@ -50,9 +63,32 @@ describe("tenancy sweep: a member of company B never reaches company A's resourc
     expect(await companySnapshot(t.db, a.companyId)).toEqual(before);
   });
 
+  it("uploads aimed at A's job or system are 404 too, and store nothing", async () => {
+    const before = await companySnapshot(t.db, a.companyId);
+    const photo = await b.owner.api.upload(`/api/jobs/${a.work.jobId}/attachments`, { content: TINY_PNG, name: "planted.png", type: "image/png" });
+    expect(photo.status).toBe(404);
+    const csv = await b.owner.api.upload(`/api/systems/${a.work.systemId}/runs.csv`, { content: "id,from,to,length,size\r\nx,bus,shed,1,16 mm2", name: "r.csv" }, { version: "1" });
+    expect(csv.status).toBe(404);
+    expect(await companySnapshot(t.db, a.companyId)).toEqual(before);
+  });
+
+  it("ids in a body are checked too: B cannot file a job under A's client or use A's limit profile", async () => {
+    const job = await b.owner.api.post("/api/jobs", { clientId: a.work.clientId, title: "Poached" });
+    expect(job.status).toBe(404);
+    const system = await b.owner.api.post(`/api/jobs/${b.work.jobId}/systems`, { name: "Borrowed limits", limitProfileId: a.work.profileId });
+    expect(system.status).toBe(404);
+    const moved = await b.owner.api.patch(`/api/jobs/${b.work.jobId}`, { clientId: a.work.clientId });
+    expect(moved.status).toBe(404);
+    const lists = await Promise.all(["/api/clients", "/api/jobs", "/api/limit-profiles", `/api/jobs/${b.work.jobId}/attachments`].map((p) => b.owner.api.get(p)));
+    const aIds = Object.values(a.work);
+    for (const list of lists) expect(list.body.items.map((i: { id: string }) => i.id).filter((id: string) => aIds.includes(id))).toEqual([]);
+  });
+
   it("the same routes reach B's own resources, so the 404s above are about tenancy", async () => {
     const own = await b.owner.api.patch(`/api/members/${b.spare.userId}`, { role: "installer" });
     expect(own.status).toBe(200);
+    expect((await b.owner.api.get(`/api/systems/${b.work.systemId}`)).status).toBe(200);
+    expect((await b.owner.api.get(`/api/attachments/${b.work.attachmentId}/file`)).status).toBe(200);
     expect((await b.owner.api.delete(`/api/invitations/${b.invitationId}`)).status).toBe(204);
   });
 
