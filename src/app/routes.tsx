@@ -22,10 +22,13 @@ export const routes: RouteObject[] = [
         children: [
           { path: paths.dashboard.path, lazy: lazyScreen(() => import("./routes/dashboard")) },
           { path: paths.jobs.path, lazy: lazyScreen(() => import("./routes/jobs")) },
+          { path: paths.job.path, lazy: lazyScreen(() => import("./routes/job")) },
+          { path: paths.system.path, lazy: lazyScreen(() => import("./routes/system")) },
           { path: paths.clients.path, lazy: lazyScreen(() => import("./routes/clients")) },
           { path: paths.priceList.path, lazy: lazyScreen(() => import("./routes/price-list")) },
           { path: paths.team.path, lazy: lazyScreen(() => import("./routes/team")) },
           { path: paths.settings.path, lazy: lazyScreen(() => import("./routes/settings")) },
+          { path: paths.limitProfiles.path, lazy: lazyScreen(() => import("./routes/limit-profiles")) },
           { path: "*", lazy: lazyScreen(() => import("./routes/not-found")) },
         ],
       },

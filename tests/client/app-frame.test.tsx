@@ -20,7 +20,11 @@ describe("the app frame", () => {
   });
 
   it("shows the database down on a 503 health answer, in words and not colour alone", async () => {
-    stubApi({ "GET /api/auth/session": sessionAs("owner"), "GET /api/health": { status: 503, body: { status: "degraded", db: "down", version: "0.1.0" } } });
+    stubApi({
+      "GET /api/auth/session": sessionAs("owner"),
+      "GET /api/health": { status: 503, body: { status: "degraded", db: "down", version: "0.1.0" } },
+      "GET /api/jobs?page=1&pageSize=25&sort=-updatedAt": { body: { items: [], total: 0, page: 1, pageSize: 25 } },
+    });
     renderAt("/jobs");
     const status = await screen.findByRole("status", { name: "Database down" });
     expect(status.textContent).toContain("Database");

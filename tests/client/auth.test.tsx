@@ -25,6 +25,7 @@ describe("signing in", () => {
       "GET /api/auth/session": signedOut,
       "POST /api/auth/sign-in": sessionAs("estimator"),
       "GET /api/health": healthUp,
+      "GET /api/jobs?page=1&pageSize=25&sort=-updatedAt": { body: { items: [], total: 0, page: 1, pageSize: 25 } },
     });
     const router = renderAt("/jobs");
     expect(await screen.findByRole("heading", { level: 1, name: "Sign in" })).toBeTruthy();

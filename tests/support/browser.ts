@@ -53,7 +53,12 @@ export function watchPage(page: Page, origin: string): { problems: string[] } {
     if (msg.type() === "error") problems.push(`console error: ${msg.text()}`);
   });
   page.on("pageerror", (error) => problems.push(`page error: ${error.message}`));
-  page.on("requestfailed", (req) => problems.push(`request failed: ${req.url()} ${req.failure()?.errorText ?? ""}`));
+  page.on("requestfailed", (req) => {
+    const error = req.failure()?.errorText ?? "";
+    // A read the app cancelled itself (TanStack Query aborts a fetch it replaces) is not a failure.
+    if (req.method() === "GET" && error === "net::ERR_ABORTED") return;
+    problems.push(`request failed: ${req.url()} ${error}`);
+  });
   page.on("request", (req) => {
     const url = req.url();
     if (!url.startsWith(origin) && !url.startsWith("data:")) problems.push(`foreign request: ${url}`);

@@ -1,15 +1,14 @@
-import { EmptyState } from "../../components/ui/empty-state";
-import { PeopleIcon } from "../../components/ui/icons";
+import { roleCan } from "../../../shared/permissions";
 import { PageHeader } from "../../components/ui/page-header";
+import { useSignedInSession } from "../../features/auth/hooks/session-context";
+import { ClientsList } from "../../features/clients/components/clients-list";
 
 export default function ClientsScreen() {
+  const session = useSignedInSession();
   return (
     <>
       <PageHeader title="Clients" description="The people and firms you quote for." />
-      <EmptyState title="No clients yet" icon={<PeopleIcon />}>
-        Clients get their quotes by e-mail and accept them online; they never need an account. Each client's contact details, billing
-        address and jobs will be kept here.
-      </EmptyState>
+      <ClientsList canWrite={roleCan(session.role, "jobs:write")} />
     </>
   );
 }

@@ -1,15 +1,39 @@
-import { EmptyState } from "../../components/ui/empty-state";
-import { RunIcon } from "../../components/ui/icons";
+import { useState } from "react";
+import { useNavigate } from "react-router-dom";
+import { roleCan } from "../../../shared/permissions";
+import { primaryButtonClass } from "../../components/ui/form";
 import { PageHeader } from "../../components/ui/page-header";
+import { paths } from "../../config/paths";
+import { useSignedInSession } from "../../features/auth/hooks/session-context";
+import { FormDialog } from "../../features/jobs/components/form-dialog";
+import { JobForm } from "../../features/jobs/components/job-form";
+import { JobsList } from "../../features/jobs/components/jobs-list";
 
 export default function JobsScreen() {
+  const session = useSignedInSession();
+  const navigate = useNavigate();
+  const canWrite = roleCan(session.role, "jobs:write");
+  const [creating, setCreating] = useState(false);
+  const openNew = canWrite ? () => setCreating(true) : undefined;
   return (
     <>
-      <PageHeader title="Jobs" description="Each job is one client's site: its DC systems, estimate and quotes." />
-      <EmptyState title="No jobs yet" icon={<RunIcon />}>
-        A job holds the systems you lay out for a site — a battery bank, the cable runs and the loads — with the voltage at every load
-        checked in every case. Jobs you create will be listed here, newest first.
-      </EmptyState>
+      <PageHeader
+        title="Jobs"
+        description="Each job is one client's site: its DC systems, estimate and quotes."
+        actions={
+          openNew ? (
+            <button type="button" onClick={openNew} className={primaryButtonClass}>
+              New job
+            </button>
+          ) : null
+        }
+      />
+      <JobsList canCreate={canWrite} />
+      {creating ? (
+        <FormDialog title="New job" onClose={() => setCreating(false)}>
+          <JobForm onCreated={(job) => navigate(paths.job.getHref(job.id))} onCancel={() => setCreating(false)} />
+        </FormDialog>
+      ) : null}
     </>
   );
 }
