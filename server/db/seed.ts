@@ -31,6 +31,7 @@ export async function seedDemo(db: DataSource): Promise<void> {
   const hashes = new Map<string, string>();
   for (const user of missing) hashes.set(user.id, await hashPassword(DEMO_PASSWORD));
   await db.transaction(async (tx) => {
+    const fresh = !(await tx.existsBy(Company, { id: DEMO_COMPANY_ID }));
     await tx
       .createQueryBuilder()
       .insert()
@@ -60,7 +61,8 @@ export async function seedDemo(db: DataSource): Promise<void> {
         .execute();
       await tx.createQueryBuilder().insert().into(Membership).values({ companyId: DEMO_COMPANY_ID, userId: user.id, role: user.role }).orIgnore().execute();
     }
-    await ensureDefaultLimitProfiles(tx, DEMO_COMPANY_ID);
+    // A company made before limit profiles existed got them from their migration.
+    if (fresh) await ensureDefaultLimitProfiles(tx, DEMO_COMPANY_ID);
   });
   await seedDemoJobs(db);
 }
@@ -109,10 +111,17 @@ export const DEMO_JOBS = [
   },
 ];
 
-/** Two clients and three jobs of an invented practice, each with a system solved at seeding. Never overwrites. */
+/**
+ * Two clients and three jobs of an invented practice, each with a system solved at seeding. Only
+ * into a demo company that has no clients and no jobs yet, so what people change or delete in the
+ * demo stays changed (only deleting every client and job brings the demo jobs back).
+ */
 async function seedDemoJobs(db: DataSource): Promise<void> {
   const estimator = DEMO_USERS.find((u) => u.role === "estimator")!.id;
   await db.transaction(async (tx) => {
+    // Serialises two starts seeding at once.
+    await tx.query(`SELECT id FROM company WHERE id = $1 FOR UPDATE`, [DEMO_COMPANY_ID]);
+    if ((await tx.existsBy(Client, { companyId: DEMO_COMPANY_ID })) || (await tx.existsBy(Job, { companyId: DEMO_COMPANY_ID }))) return;
     const hasEstimator = await tx.existsBy(User, { id: estimator });
     const general = await tx.findOneBy(LimitProfile, { companyId: DEMO_COMPANY_ID, name: "General — 3 % branch, 5 % total" });
     for (const client of DEMO_CLIENTS) {

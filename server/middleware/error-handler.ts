@@ -68,6 +68,14 @@ function toAppError(error: unknown): AppError {
   if (typeof sqlState === "string" && /^22[0-9A-Z]{3}$/.test(sqlState)) {
     return new AppError("invalid_input", "A value in the request cannot be stored (out of range or an invalid character)");
   }
+  // Integrity constraints (class 23): the services check these first; when two requests race past
+  // the checks, the database's refusal is a conflict or bad input, never a 500.
+  if (sqlState === "23505" || sqlState === "23503") {
+    return new AppError("conflict", "Someone changed the same records at the same moment; reload and try again");
+  }
+  if (sqlState === "23514" || sqlState === "23502") {
+    return new AppError("invalid_input", "A value in the request is outside what can be stored");
+  }
   const status = (error as { status?: unknown })?.status;
   if (typeof status === "number" && status >= 400 && status < 500) {
     return new AppError("invalid_input", "The request could not be read");

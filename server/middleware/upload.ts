@@ -9,6 +9,8 @@ import { AppError } from "../errors.js";
 export function singleFile(field: string, maxBytes: number, what: string): RequestHandler {
   const upload = multer({
     storage: multer.memoryStorage(),
+    // Browsers send file names as UTF-8; multer's default reads them as latin1.
+    defParamCharset: "utf8",
     limits: { fileSize: maxBytes, files: 1, fields: 10, fieldSize: 64 * 1024, parts: 12 },
   }).single(field);
   const limitText = maxBytes >= 1024 * 1024 ? `${maxBytes / (1024 * 1024)} MB` : `${Math.round(maxBytes / 1024)} KB`;

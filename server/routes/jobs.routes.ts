@@ -1,4 +1,4 @@
-import { Router } from "express";
+import { Router, type RequestHandler } from "express";
 import { AttachmentListQuery, CreateJobInput, CreateSystemInput, JobLimits, JobListQuery, UpdateJobInput } from "../../shared/schemas/jobs.js";
 import { can, requireAuth } from "../auth/context.js";
 import { singleFile } from "../middleware/upload.js";
@@ -6,7 +6,8 @@ import { presentAttachment, presentJobDetail, presentJobSummary, presentSystem }
 import { addAttachment, listAttachments } from "../services/attachment.service.js";
 import { createJob, deleteJob, getJobDetail, listJobs, updateJob } from "../services/job.service.js";
 import { createSystem, getSystem } from "../services/system.service.js";
-import { idParam } from "../services/tenancy.js";
+import { companyScope, idParam } from "../services/tenancy.js";
+import { Job } from "../db/entities/index.js";
 import type { AccountDeps } from "./deps.js";
 
 export function jobRoutes({ db }: AccountDeps): Router {
@@ -55,7 +56,13 @@ export function jobRoutes({ db }: AccountDeps): Router {
     res.json({ ...page, items: page.items.map(presentAttachment) });
   });
 
-  router.post("/:jobId/attachments", can("jobs:write"), singleFile("file", JobLimits.attachmentMaxBytes, "file"), async (req, res) => {
+  // The job is looked up before the upload is read: an unknown job is a 404 whatever was sent.
+  const jobExists: RequestHandler = async (req, _res, next) => {
+    await companyScope(db.manager, requireAuth(req).companyId).mustFind(Job, { id: idParam(req.params.jobId, "Job") }, "Job");
+    next();
+  };
+
+  router.post("/:jobId/attachments", can("jobs:write"), jobExists, singleFile("file", JobLimits.attachmentMaxBytes, "file"), async (req, res) => {
     const jobId = idParam(req.params.jobId, "Job");
     const auth = requireAuth(req);
     res.status(201).json(presentAttachment(await addAttachment(db, auth.companyId, auth.userId, jobId, req.file)));

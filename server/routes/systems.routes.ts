@@ -1,4 +1,4 @@
-import { Router } from "express";
+import { Router, type RequestHandler } from "express";
 import { z } from "zod";
 import { JobLimits, SaveSystemInput, SolveRequest } from "../../shared/schemas/jobs.js";
 import { can, requireAuth } from "../auth/context.js";
@@ -60,14 +60,20 @@ export function systemRoutes({ db }: AccountDeps): Router {
     res.send(`\uFEFF${runsToCsv(system.document as unknown as SystemInput)}`);
   });
 
-  router.post("/:systemId/runs.csv", can("jobs:write"), singleFile("file", JobLimits.csvMaxBytes, "CSV file"), async (req, res) => {
+  // The system is looked up before the upload is read: an unknown system is a 404 whatever was sent.
+  const systemExists: RequestHandler = async (req, _res, next) => {
+    await getSystem(db.manager, requireAuth(req).companyId, idParam(req.params.systemId, "System"));
+    next();
+  };
+
+  router.post("/:systemId/runs.csv", can("jobs:write"), systemExists, singleFile("file", JobLimits.csvMaxBytes, "CSV file"), async (req, res) => {
     const id = idParam(req.params.systemId, "System");
     const auth = requireAuth(req);
     const system = await getSystem(db.manager, auth.companyId, id);
     const { version } = CsvVersion.parse(req.body ?? {});
     if (!req.file) throw new AppError("invalid_input", 'file: choose a CSV file (multipart field "file")', { field: "file" });
     const current = system.document as unknown as SystemInput;
-    const runs = runsFromCsv(req.file.buffer, current);
+    const runs = await runsFromCsv(req.file.buffer, current);
     // The whole network must still be valid with the new runs (e.g. a load on a point no run reaches is fine, a bad field is not).
     const document = await validDocument({ ...current, runs });
     res.json(presentSystem(await saveSystem(db, auth.companyId, auth.userId, id, { version, document })));

@@ -17,7 +17,9 @@ export function safeFileName(original: string | undefined, mediaType: string): s
   let name = base.replace(/[\u0000-\u001f\u007f"<>|:*?]/g, "_").replace(/^\.+/, "").trim();
   const extension = mediaType === "application/pdf" ? ".pdf" : mediaType === "image/png" ? ".png" : ".jpg";
   if (name === "") name = `attachment${extension}`;
-  if (name.length > JobLimits.fileNameMax) name = name.slice(0, JobLimits.fileNameMax - extension.length) + extension;
+  // Cut by code points, so an emoji or an accented letter is never split in half.
+  const points = Array.from(name);
+  if (points.length > JobLimits.fileNameMax) name = points.slice(0, JobLimits.fileNameMax - extension.length).join("") + extension;
   return name;
 }
 

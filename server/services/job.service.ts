@@ -78,7 +78,8 @@ export async function getJobDetail(db: DataSource, companyId: string, id: string
 export async function createJob(db: DataSource, companyId: string, userId: string, input: z.output<typeof CreateJobInput>): Promise<string> {
   return db.transaction(async (tx) => {
     // The client must be this company's; another company's is "not found".
-    await companyScope(tx, companyId).mustFind(Client, { id: input.clientId }, "Client");
+    // Locked, so a delete of the client waits for this job (and then refuses: the client has a job).
+    await companyScope(tx, companyId).mustFind(Client, { id: input.clientId }, "Client", true);
     const job = await tx.save(
       tx.create(Job, {
         companyId,
@@ -98,7 +99,7 @@ export async function updateJob(db: DataSource, companyId: string, id: string, p
   await db.transaction(async (tx) => {
     const scope = companyScope(tx, companyId);
     const job = await scope.mustFind(Job, { id }, "Job", true);
-    if (patch.clientId !== undefined) await scope.mustFind(Client, { id: patch.clientId }, "Client");
+    if (patch.clientId !== undefined) await scope.mustFind(Client, { id: patch.clientId }, "Client", true);
     tx.merge(Job, job, patch);
     await tx.save(job);
   });

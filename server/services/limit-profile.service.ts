@@ -90,6 +90,8 @@ export async function getLimitProfile(db: DataSource, companyId: string, id: str
 }
 
 async function refuseDuplicateName(manager: EntityManager, companyId: string, name: string, exceptId?: string) {
+  // Names are unique per company ignoring case; the company row's lock makes two creates take turns.
+  await manager.query(`SELECT id FROM company WHERE id = $1 FOR UPDATE`, [companyId]);
   const same = await manager
     .getRepository(LimitProfile)
     .createQueryBuilder("p")

@@ -1,5 +1,6 @@
 import Papa from "papaparse";
 import { normalizeSize } from "../../shared/engine/conductors.js";
+import { convertLength } from "../../shared/engine/lengths.js";
 import { runSchema, type SystemInput } from "../../shared/engine/schema.js";
 import { AppError } from "../errors.js";
 
@@ -35,8 +36,9 @@ export interface RowError {
 // A cell a spreadsheet would run as a formula is written with a leading apostrophe (OWASP "CSV
 // injection"); import takes the apostrophe off again.
 const FORMULA_START = /^[=+\-@\t\r]/;
-const neutralise = (v: string) => (FORMULA_START.test(v) ? `'${v}` : v);
-const unneutralise = (v: string) => (v.startsWith("'") && FORMULA_START.test(v.slice(1)) ? v.slice(1) : v);
+// A text that itself starts with an apostrophe gets one more, so import gives back exactly what was exported.
+const neutralise = (v: string) => (FORMULA_START.test(v) || v.startsWith("'") ? `'${v}` : v);
+const unneutralise = (v: string) => (v.startsWith("'") && (FORMULA_START.test(v.slice(1)) || v.startsWith("''")) ? v.slice(1) : v);
 
 /** The runs of a document as CSV text (RFC 4180, CRLF line ends, header row). */
 export function runsToCsv(document: SystemInput): string {
@@ -74,31 +76,49 @@ function refuse(errors: RowError[]): never {
  * Reads a CSV of runs against the system's points. Every row is checked; any error refuses the whole
  * file (nothing is saved), each error naming its line (the header is line 1) and column.
  */
-export function runsFromCsv(bytes: Buffer, document: SystemInput): SystemInput["runs"] {
-  const text = decodeUtf8(bytes);
+export async function runsFromCsv(bytes: Buffer, document: SystemInput): Promise<SystemInput["runs"]> {
+  // CR-only (old Mac) and CRLF line ends are read as LF, so line numbers count every kind.
+  const text = decodeUtf8(bytes).replace(/\r\n?/g, "\n");
   if (text.trim() === "") refuse([{ line: 1, column: null, message: "the file is empty; the first line must name the columns" }]);
+  // The header may name each known column once: a longer one is refused before any per-column work.
+  const firstLine = text.slice(0, text.indexOf("\n") === -1 ? text.length : text.indexOf("\n"));
+  if (firstLine.split(/[,;\t|]/).length > RUN_COLUMNS.length * 2) {
+    refuse([{ line: 1, column: null, message: `the header has more columns than the ${RUN_COLUMNS.length} a CSV of runs can have (${RUN_COLUMNS.join(", ")})` }]);
+  }
   const parsed = Papa.parse<string[]>(text, { skipEmptyLines: "greedy" });
   const errors: RowError[] = [];
   for (const e of parsed.errors) errors.push({ line: (e.row ?? 0) + 1, column: null, message: e.message });
   const [header = [], ...rows] = parsed.data;
   // Papa reports the data's line numbers only through the rows it kept; blank lines are skipped,
   // so find each row's line in the text.
-  const lines = lineNumbers(text, parsed.data.length);
+  const lines = lineNumbers(text, parsed.data.length, parsed.meta.delimiter || ",");
   const names = header.map((h) => h.trim());
+  const seenColumns = new Set<string>();
   names.forEach((name, i) => {
     if (!(RUN_COLUMNS as readonly string[]).includes(name)) {
       errors.push({ line: 1, column: name || `(column ${i + 1})`, message: `unknown column "${name}"; the columns are ${RUN_COLUMNS.join(", ")}` });
     }
-    if (names.indexOf(name) !== i) errors.push({ line: 1, column: name, message: `column "${name}" appears twice` });
+    if (seenColumns.has(name)) errors.push({ line: 1, column: name, message: `column "${name}" appears twice` });
+    seenColumns.add(name);
   });
   for (const column of REQUIRED) if (!names.includes(column)) errors.push({ line: 1, column, message: `the required column "${column}" is missing` });
   if (errors.length) refuse(errors);
+  if (rows.length === 0) refuse([{ line: 2, column: null, message: "the file has no runs under its header; importing it would remove every run" }]);
 
   const pointIds = new Set(document.points.map((p) => p.id));
   const seen = new Map<string, number>();
   const runs: SystemInput["runs"] = [];
+  // Lengths typed with a unit ("130 ft") are converted to the system's units here, so a bad one is
+  // reported with its line like any other cell.
+  const lengths = await Promise.all(
+    rows.map(async (cells) => {
+      const i = names.indexOf("length");
+      const cell = i >= 0 && cells.length === names.length ? cells[i].trim() : "";
+      return cell === "" || /^[+-]?\d+(\.\d+)?$/.test(cell) ? null : convertLength(cell, document.units);
+    }),
+  );
   rows.forEach((cells, index) => {
-    const line = lines[index + 1];
+    const line = lines[index + 1] ?? index + 2;
     if (cells.length !== names.length) {
       errors.push({ line, column: null, message: `has ${cells.length} cells; the header has ${names.length}` });
       return;
@@ -106,14 +126,17 @@ export function runsFromCsv(bytes: Buffer, document: SystemInput): SystemInput["
     const raw: Record<string, unknown> = {};
     const rowErrors: RowError[] = [];
     names.forEach((column, i) => {
-      const cell = unneutralise(cells[i].trim());
-      if (cell === "") return;
+      // A name keeps its spaces; every other cell is an id, a number or a choice.
+      const cell = unneutralise(column === "name" ? cells[i] : cells[i].trim());
+      if (cell.trim() === "") return;
       if ((NUMERIC as string[]).includes(column)) {
         const n = Number(cell);
         if (!Number.isFinite(n)) rowErrors.push({ line, column, message: `"${cell}" is not a number` });
         else raw[column] = n;
       } else if (column === "length") {
-        raw.length = /^[+-]?\d+(\.\d+)?$/.test(cell) ? Number(cell) : cell;
+        const converted = lengths[index];
+        if (converted && typeof converted === "object") rowErrors.push({ line, column, message: converted.error });
+        raw.length = converted === null ? Number(cell) : typeof converted === "number" ? converted : cell;
         if (typeof raw.length === "number" && raw.length <= 0) rowErrors.push({ line, column, message: "must be more than 0 (a one-way length)" });
       } else if (column === "locked") {
         const v = cell.toLowerCase();
@@ -157,30 +180,52 @@ export function runsFromCsv(bytes: Buffer, document: SystemInput): SystemInput["
   return runs;
 }
 
-/** The 1-based line on which each of the first `count` non-blank records starts. */
-function lineNumbers(text: string, count: number): number[] {
+/**
+ * The 1-based line on which each of the first `count` records starts, skipping blank lines as
+ * papaparse's "greedy" mode does (lines of only spaces and delimiters). Quotes follow RFC 4180: a
+ * quote opens a quoted field only at the start of a field, and "" inside one is a literal quote.
+ * `text` has LF line ends only.
+ */
+function lineNumbers(text: string, count: number, delimiter: string): number[] {
   const out: number[] = [];
   let line = 1;
+  let recordLine = 1;
   let inQuotes = false;
-  let recordStarted = false;
+  let fieldStart = true;
   let blank = true;
+  const endRecord = () => {
+    if (!blank) out.push(recordLine);
+    blank = true;
+    fieldStart = true;
+    recordLine = line;
+  };
   for (let i = 0; i < text.length && out.length < count; i++) {
     const ch = text[i];
-    if (!recordStarted) {
-      recordStarted = true;
-      blank = true;
-      out.push(line);
+    if (inQuotes) {
+      if (ch === '"' && text[i + 1] === '"') i++;
+      else if (ch === '"') inQuotes = false;
+      else if (ch === "\n") line++;
+      continue;
     }
-    if (ch === '"') inQuotes = !inQuotes;
     if (ch === "\n") {
       line++;
-      if (!inQuotes) {
-        if (blank) out.pop();
-        recordStarted = false;
-      }
-    } else if (!/[\s,;]/.test(ch)) {
-      blank = false;
+      endRecord();
+      continue;
     }
+    if (ch === '"' && fieldStart) {
+      inQuotes = true;
+      blank = false;
+      fieldStart = false;
+      continue;
+    }
+    if (text.startsWith(delimiter, i)) {
+      fieldStart = true;
+      i += delimiter.length - 1;
+      continue;
+    }
+    if (!/\s/.test(ch)) blank = false;
+    fieldStart = false;
   }
+  if (out.length < count) endRecord();
   return out;
 }

@@ -88,7 +88,8 @@ export function summarise(result: SolveResult): SystemSummary["lastSolve"] {
 }
 
 async function ensureProfile(manager: EntityManager, companyId: string, limitProfileId: string | null | undefined) {
-  if (limitProfileId) await companyScope(manager, companyId).mustFind(LimitProfile, { id: limitProfileId }, "Limit profile");
+  // Locked, so deleting the profile waits for this save (and then refuses: a system uses it).
+  if (limitProfileId) await companyScope(manager, companyId).mustFind(LimitProfile, { id: limitProfileId }, "Limit profile", true);
 }
 
 async function defaultProfileId(manager: EntityManager, companyId: string): Promise<string | null> {

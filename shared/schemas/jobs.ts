@@ -210,14 +210,24 @@ export type LimitProfileRecord = z.infer<typeof LimitProfileSchema>;
 export const LimitProfilePage = pageOf(LimitProfileSchema);
 export const LimitProfileListQuery = listQuery(["name", "updatedAt"], "name");
 
+/** At most three decimal places: the columns are numeric(…, 3), so nothing is rounded on save. */
+const threeDecimals = (v: number) => Math.abs(v * 1000 - Math.round(v * 1000)) < 1e-6;
 const limitPercent = (field: string) =>
-  z.number({ error: `${field} must be a number` }).gt(0, `${field} must be more than 0 %`).max(100, `${field} must be at most 100 %`);
+  z
+    .number({ error: `${field} must be a number` })
+    .min(0.001, `${field} must be at least 0.001 %`)
+    .max(100, `${field} must be at most 100 %`)
+    .refine(threeDecimals, `${field} may have at most 3 decimal places`);
 const profileFields = {
   name: requiredText("name", JobLimits.profileNameMax),
   branchPercent: limitPercent("branch limit"),
   totalPercent: limitPercent("total limit"),
   criticalPercent: limitPercent("critical limit"),
-  nearFraction: z.number({ error: "near-limit threshold must be a number" }).gt(0, "near-limit threshold must be between 0 and 1").lt(1, "near-limit threshold must be between 0 and 1"),
+  nearFraction: z
+    .number({ error: "near-limit threshold must be a number" })
+    .min(0.001, "near-limit threshold must be between 0.001 and 0.999")
+    .max(0.999, "near-limit threshold must be between 0.001 and 0.999")
+    .refine(threeDecimals, "near-limit threshold may have at most 3 decimal places"),
   notes: optionalText("notes", JobLimits.notesMax, true),
 };
 export const CreateLimitProfileInput = z.strictObject({

@@ -101,4 +101,80 @@ describe.skipIf(!hasChromium)("the System editor in headless Chromium", () => {
     expect(watch.problems).toEqual([]);
     await page.close();
   });
+
+  it("an estimator creates a client, a job and a system from scratch with the keyboard and sees the load's voltage", async () => {
+    const page = await browser.newPage();
+    const watch = watchPage(page, app.url);
+    const enterText = async (name: string, text: string, key: "Enter" | "Tab" = "Enter") => {
+      const cell = page.getByLabel(name, { exact: true });
+      await cell.focus();
+      await page.keyboard.press("Control+A");
+      await page.keyboard.type(text);
+      await page.keyboard.press(key);
+    };
+    const focusedLabel = () => page.evaluate(() => document.activeElement?.getAttribute("aria-label") ?? "");
+
+    page.setDefaultTimeout(8000);
+    // A client: Name, Tab, E-mail, Enter submits.
+    await page.goto(`${app.url}/clients`);
+    await page.getByRole("button", { name: "New client" }).focus();
+    await page.keyboard.press("Enter");
+    await page.getByLabel("Name", { exact: true }).focus();
+    await page.keyboard.type("Perpetua Ashgrove (browser test)");
+    await page.keyboard.press("Tab");
+    await page.keyboard.type("perpetua@client.test");
+    await page.keyboard.press("Enter");
+    await page.getByRole("table", { name: "Clients" }).getByText("Perpetua Ashgrove (browser test)").waitFor();
+
+    // A job for her, from the Jobs list.
+    await page.goto(`${app.url}/jobs`);
+    await page.getByRole("button", { name: "New job" }).focus();
+    await page.keyboard.press("Enter");
+    await page.getByLabel("Client", { exact: true }).selectOption({ label: "Perpetua Ashgrove (browser test)" });
+    await page.getByLabel("Title", { exact: true }).focus();
+    await page.keyboard.type("Boathouse 12 V lighting");
+    await page.keyboard.press("Enter");
+    await page.getByRole("heading", { level: 1, name: "Boathouse 12 V lighting" }).waitFor();
+
+    // A 12 V system on the job page.
+    await page.getByRole("button", { name: "New system" }).focus();
+    await page.keyboard.press("Enter");
+    await page.getByLabel("System name", { exact: true }).focus();
+    await page.keyboard.type("Boathouse house bank");
+    await page.getByLabel("Nominal voltage", { exact: true }).selectOption({ label: "12 V" });
+    await page.getByRole("button", { name: "Create system" }).focus();
+    await page.keyboard.press("Enter");
+    await page.getByRole("heading", { name: "One-line diagram" }).waitFor();
+
+    // A point, a run to it and a load on it, typed cell by cell.
+    const entry = page.getByRole("tablist", { name: "Entry tables" });
+    await entry.getByRole("tab", { name: "Points", exact: true }).click();
+    await page.getByRole("button", { name: "Add point" }).click();
+    await enterText(await focusedLabel(), "dock");
+    await entry.getByRole("tab", { name: "Runs", exact: true }).click();
+    await page.getByRole("button", { name: "Add run" }).click();
+    const runId = (await focusedLabel()).replace(/^Id of run /, "");
+    await enterText(`From of run ${runId}`, "bus");
+    await enterText(`To of run ${runId}`, "dock");
+    await enterText(`Length of run ${runId}`, "12");
+    await enterText(`Size of run ${runId}`, "4");
+    await entry.getByRole("tab", { name: "Loads", exact: true }).click();
+    await page.getByRole("button", { name: "Add load" }).click();
+    const loadId = (await focusedLabel()).replace(/^Id of load /, "");
+    await enterText(`Point of load ${loadId}`, "dock");
+    await enterText(`Watts of load ${loadId}`, "60");
+
+    // 60 W at 12 V over 12 m of 4 mm²: the load gets a voltage and a status.
+    await expect.poll(() => loadStatus(page, loadId), { timeout: 15000 }).toMatch(/(Within|Near|Over) limit/);
+    expect(await loadStatus(page, loadId)).toMatch(/\d+\.\d{2}/);
+    await page.keyboard.press("Control+s");
+    await page.getByText("Saved", { exact: true }).first().waitFor({ timeout: 10000 });
+    const saved = await db.getRepository(System).findOneByOrFail({ name: "Boathouse house bank" });
+    expect(saved.version).toBe(2);
+    expect((saved.document as { loads: Array<{ point: string; watts: number }> }).loads).toEqual([expect.objectContaining({ point: "dock", watts: 60 })]);
+    expect(saved.lastSolve).not.toBeNull();
+    await page.screenshot({ path: path.join(shots, "6-from-scratch.png"), fullPage: true });
+    expect(watch.problems).toEqual([]);
+    await page.close();
+  });
 });

@@ -55,8 +55,9 @@ export function watchPage(page: Page, origin: string): { problems: string[] } {
   page.on("pageerror", (error) => problems.push(`page error: ${error.message}`));
   page.on("requestfailed", (req) => {
     const error = req.failure()?.errorText ?? "";
-    // A read the app cancelled itself (TanStack Query aborts a fetch it replaces) is not a failure.
-    if (req.method() === "GET" && error === "net::ERR_ABORTED") return;
+    // A read or a solve the app cancelled itself (TanStack Query aborts a fetch it replaces; the
+    // editor aborts a solve that a newer edit supersedes) is not a failure.
+    if (error === "net::ERR_ABORTED" && (req.method() === "GET" || req.url().endsWith("/solve"))) return;
     problems.push(`request failed: ${req.url()} ${error}`);
   });
   page.on("request", (req) => {

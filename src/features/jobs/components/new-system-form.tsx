@@ -1,5 +1,5 @@
 import { zodResolver } from "@hookform/resolvers/zod";
-import { useState } from "react";
+import { useEffect, useState } from "react";
 import { useForm } from "react-hook-form";
 import { z } from "zod";
 import { DEFAULT_LIMIT_PROFILE } from "../../../../shared/engine/schema";
@@ -67,6 +67,8 @@ export function NewSystemForm({ jobId, defaultUnits = "metric", onCreated, onCan
     register,
     handleSubmit,
     setError,
+    setValue,
+    getValues,
     watch,
     formState: { errors },
   } = useForm<SystemFormValues, unknown, SystemFormOutput>({
@@ -74,6 +76,11 @@ export function NewSystemForm({ jobId, defaultUnits = "metric", onCreated, onCan
     defaultValues: { name: "", voltageChoice: "24", otherVoltage: "", units: defaultUnits, limitProfileId: "" },
   });
   const other = watch("voltageChoice") === "other";
+  // New systems start on the company's first built-in profile (General), as the server would choose.
+  const firstBuiltIn = profiles.data?.items.find((p) => p.builtIn)?.id;
+  useEffect(() => {
+    if (firstBuiltIn && getValues("limitProfileId") === "") setValue("limitProfileId", firstBuiltIn);
+  }, [firstBuiltIn, getValues, setValue]);
 
   const onSubmit = handleSubmit((input) => {
     setAlert(null);
