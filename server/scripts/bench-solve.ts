@@ -10,79 +10,14 @@
 // includes both sides' JSON work. Target (issue 5): a round trip under 150 ms for 200 loads.
 // Also times the same with 500 loads, and a save (PUT with the version, which solves too).
 import { performance } from "node:perf_hooks";
-import type { AddressInfo } from "node:net";
-import { createServer } from "node:http";
-import { createApp } from "../app.js";
-import { readEnv } from "../config/env.js";
-import { createDataSource } from "../db/data-source.js";
-import { CSRF_HEADER } from "../../shared/http.js";
-import { SYSTEM_FORMAT, type SystemInput } from "../../shared/engine/schema.js";
-import { openDevDatabase } from "./dev-database.js";
-
-/** A 24 V bank, `panels` feeders of 25 mm² to distribution points, `perPanel` branch runs each to a load. */
-function network(panels: number, perPanel: number): SystemInput {
-  const doc: SystemInput = {
-    format: SYSTEM_FORMAT,
-    units: "metric",
-    nominalVoltage: 24,
-    points: [{ id: "bus", name: "Battery bus bar", fuseInterruptingA: 20000 }],
-    sources: [{ id: "bank", type: "battery", point: "bus", voltage: 25.6, internalResistanceOhm: 0.004 }],
-    runs: [],
-    loads: [],
-    cases: [
-      { name: "Full charge", sourceVoltages: { bank: 27.2 }, conductorTemperatureC: 25 },
-      { name: "Low battery, hot day", sourceVoltages: { bank: 24 }, conductorTemperatureC: 60 },
-    ],
-  };
-  const models = ["constantCurrent", "constantResistance", "constantPower"] as const;
-  for (let p = 0; p < panels; p++) {
-    const panel = `panel${p}`;
-    doc.points.push({ id: panel, name: `Distribution ${p}` });
-    doc.runs.push({ id: `feed${p}`, from: "bus", to: panel, length: 5 + p, size: "25 mm2", kind: "feeder", fuseA: 80 });
-    for (let i = 0; i < perPanel; i++) {
-      const point = `p${p}-${i}`;
-      doc.points.push({ id: point });
-      doc.runs.push({ id: `r${p}-${i}`, from: panel, to: point, length: 3 + (i % 7) * 2, size: "2.5 mm2" });
-      const model = models[(p + i) % 3];
-      const load = `l${p}-${i}`;
-      if (model === "constantCurrent") doc.loads.push({ id: load, point, model, amps: 0.5 + (i % 4) * 0.25 });
-      else if (model === "constantResistance") doc.loads.push({ id: load, point, model, watts: 12 + (i % 5) * 3 });
-      else doc.loads.push({ id: load, point, model, watts: 10 + (i % 6) * 2 });
-    }
-  }
-  return doc;
-}
+import { network, startBenchApp } from "./bench-support.js";
 
 const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
 const ms = (v: number) => `${v.toFixed(1)} ms`;
 
 async function main() {
-  const env = readEnv();
-  const { url, cluster } = await openDevDatabase(env);
-  const admin = createDataSource({ url });
-  await admin.initialize();
-  await admin.query("DROP DATABASE IF EXISTS runwright_bench WITH (FORCE)");
-  await admin.query("CREATE DATABASE runwright_bench");
-  await admin.destroy();
-  const db = createDataSource({ url: url.replace(/\/[^/]*$/, "/runwright_bench") });
-  await db.initialize();
-  await db.runMigrations({ transaction: "all" });
-  const server = createServer(createApp({ db }));
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  let cookie = "";
-  const call = async (method: string, path: string, body?: unknown) => {
-    const response = await fetch(`${base}${path}`, {
-      method,
-      headers: { "Content-Type": "application/json", [CSRF_HEADER]: "1", ...(cookie ? { Cookie: cookie } : {}) },
-      body: body === undefined ? undefined : JSON.stringify(body),
-    });
-    const set = response.headers.get("set-cookie");
-    if (set) cookie = set.split(";")[0];
-    const json = (await response.json()) as Record<string, unknown>;
-    if (!response.ok) throw new Error(`${method} ${path}: ${response.status} ${JSON.stringify(json).slice(0, 300)}`);
-    return json;
-  };
+  const app = await startBenchApp("runwright_bench");
+  const { base, call } = app;
   try {
     await call("POST", "/api/auth/sign-up", { companyName: "Bench Co", name: "Bench", email: "bench@bench.test", password: "bench-password-2026" });
     const client = await call("POST", "/api/clients", { name: "Bench client" });
@@ -125,10 +60,7 @@ async function main() {
     }
     console.log("target: a 200-load solve round trip under 150 ms");
   } finally {
-    server.closeAllConnections();
-    await new Promise((resolve) => server.close(resolve));
-    await db.destroy();
-    if (cluster) console.log("(the development cluster keeps running; `npm run db -- stop` stops it)");
+    await app.close();
   }
 }
 

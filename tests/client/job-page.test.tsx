@@ -138,6 +138,9 @@ describe("the Job page", () => {
     expect(pump.textContent).toContain("Imperial");
     expect(pump.textContent).toContain("Not solved");
     expect(lights.textContent).toContain("Could not be solved: 2 problems to fix");
+    // Results are on this page, so are the cautions (DESIGN.md §5).
+    const cautions = screen.getByRole("region", { name: "Safety cautions" });
+    expect(cautions.textContent).toMatch(/fault/);
 
     const files = within(attachmentsList()).getAllByRole("listitem");
     expect(files).toHaveLength(2);

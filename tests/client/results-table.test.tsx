@@ -258,3 +258,40 @@ describe("the charts", () => {
     expect(dropRows[1][2]).toBe("3 % critical");
   });
 });
+
+describe("long results tables", () => {
+  // 120 fixtures on one bus: constant-current loads of 0.2 … 2.58 A on runs of 5 … 64.5 m.
+  const many: SystemInput = {
+    format: "runwright-system/1",
+    units: "metric",
+    nominalVoltage: 24,
+    points: [{ id: "bus" }, ...Array.from({ length: 120 }, (_, i) => ({ id: `f${i}` }))],
+    sources: [{ id: "bank", type: "battery", point: "bus", voltage: 25.6 }],
+    runs: Array.from({ length: 120 }, (_, i) => ({ id: `r${i}`, from: "bus", to: `f${i}`, length: 5 + i * 0.5, size: "2.5 mm2" })),
+    loads: Array.from({ length: 120 }, (_, i) => ({ id: `l${i}`, point: `f${i}`, model: "constantCurrent" as const, amps: 0.2 + i * 0.02 })),
+  };
+  const manyResult = solved(many);
+
+  it("draws the worst 50 loads, keeps a selected one beyond them, and shows all on request", () => {
+    const { rerender } = render(<ResultsLoadsTable doc={many} result={manyResult} selection={null} onSelect={() => {}} />);
+    expect(loadOrder()).toHaveLength(50);
+    // Worst first: the longest run with the largest current is l119.
+    expect(loadOrder()[0]).toBe("l119");
+    expect(screen.getByText("Showing the first 50 of 120 loads.")).toBeTruthy();
+    rerender(<ResultsLoadsTable doc={many} result={manyResult} selection={{ kind: "load", id: "l0" }} onSelect={() => {}} />);
+    expect(loadOrder()).toHaveLength(51);
+    expect(loadOrder().at(-1)).toBe("l0");
+    fireEvent.click(screen.getByRole("button", { name: "Show all 120 loads" }));
+    expect(loadOrder()).toHaveLength(120);
+    fireEvent.click(screen.getByRole("button", { name: "Show the first 50" }));
+    expect(loadOrder()).toHaveLength(51);
+  });
+
+  it("caps the runs table the same way", () => {
+    render(<ResultsRunsTable doc={many} kase={manyResult.cases[0]} findings={manyResult.findings} selection={{ kind: "run", id: "r100" }} onSelect={() => {}} />);
+    const ids = [...document.querySelectorAll("tr[data-run-id]")].map((tr) => tr.getAttribute("data-run-id"));
+    expect(ids).toHaveLength(51);
+    expect(ids).toContain("r100");
+    expect(screen.getByRole("button", { name: "Show all 120 runs" })).toBeTruthy();
+  });
+});

@@ -2,8 +2,9 @@ import { existsSync, mkdirSync, mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { CHROMIUM_ARGS as ARGS, CHROMIUM_PATH } from "../../server/scripts/chromium.js";
 
-export const CHROMIUM_PATH = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
+export { CHROMIUM_PATH };
 
 /** Debian's Chromium is installed by .ci/run; on a developer machine without it, browser tests skip and say why. */
 export const hasChromium = existsSync(CHROMIUM_PATH);
@@ -11,17 +12,6 @@ if (!hasChromium && process.env.CI) {
   throw new Error(`Chromium is missing at ${CHROMIUM_PATH}; .ci/run should have installed it (apt-get install -y chromium).`);
 }
 
-// Without the background-networking flags Chromium tries to reach outside hosts, which this machine refuses.
-const ARGS = [
-  "--headless",
-  "--no-sandbox",
-  "--disable-gpu",
-  "--disable-quic",
-  "--no-first-run",
-  "--disable-background-networking",
-  "--disable-component-update",
-  "--disable-sync",
-];
 
 /** A fresh Chromium with an empty profile; closeBrowser() ends it and removes the profile. */
 export async function launchBrowser(): Promise<BrowserContext> {

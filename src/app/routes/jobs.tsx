@@ -5,7 +5,7 @@ import { primaryButtonClass } from "../../components/ui/form";
 import { PageHeader } from "../../components/ui/page-header";
 import { paths } from "../../config/paths";
 import { useSignedInSession } from "../../features/auth/hooks/session-context";
-import { FormDialog } from "../../features/jobs/components/form-dialog";
+import { Dialog } from "../../components/ui/dialog";
 import { JobForm } from "../../features/jobs/components/job-form";
 import { JobsList } from "../../features/jobs/components/jobs-list";
 
@@ -30,9 +30,9 @@ export default function JobsScreen() {
       />
       <JobsList canCreate={canWrite} />
       {creating ? (
-        <FormDialog title="New job" onClose={() => setCreating(false)}>
+        <Dialog size="md" closeButton title="New job" onClose={() => setCreating(false)}>
           <JobForm onCreated={(job) => navigate(paths.job.getHref(job.id))} onCancel={() => setCreating(false)} />
-        </FormDialog>
+        </Dialog>
       ) : null}
     </>
   );

@@ -9,8 +9,8 @@ import { paths } from "../../../config/paths";
 import { ApiError } from "../../../lib/api-client";
 import { cn } from "../../../utils/cn";
 import { formatDate } from "../../../utils/format-date";
-import { FormDialog } from "../../jobs/components/form-dialog";
-import { Pager, PlainHeader, SearchInput, SortHeader, staleClass } from "../../jobs/components/list-controls";
+import { Dialog } from "../../../components/ui/dialog";
+import { Pager, PlainHeader, SearchInput, SortHeader, staleClass } from "../../../components/ui/list-controls";
 import { sortValues, useListParams } from "../../jobs/hooks/use-list-params";
 import { useDeleteClient } from "../api/delete-client";
 import { CLIENT_SORT_FIELDS, DEFAULT_CLIENT_SORT, useClients } from "../api/get-clients";
@@ -198,9 +198,9 @@ export function ClientsList({ canWrite }: { canWrite: boolean }) {
       {body}
 
       {editing ? (
-        <FormDialog title={editing.mode === "new" ? "New client" : `Edit ${editing.client.name}`} wide onClose={() => setEditing(null)}>
+        <Dialog size="lg" closeButton title={editing.mode === "new" ? "New client" : `Edit ${editing.client.name}`} onClose={() => setEditing(null)}>
           <ClientForm client={editing.mode === "edit" ? editing.client : undefined} onSaved={() => setEditing(null)} onCancel={() => setEditing(null)} />
-        </FormDialog>
+        </Dialog>
       ) : null}
       {deleting ? (
         <ConfirmDialog title={`Delete ${deleting.name}?`} confirmLabel="Delete client" pending={remove.isPending} onConfirm={confirmDelete} onCancel={() => setDeleting(null)}>

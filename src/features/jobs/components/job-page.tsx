@@ -17,7 +17,7 @@ import { AttachmentsSection } from "../../attachments/components/attachments-sec
 import { useDeleteJob } from "../api/delete-job";
 import { useJob } from "../api/get-job";
 import { useUpdateJob } from "../api/update-job";
-import { FormDialog } from "./form-dialog";
+import { Dialog } from "../../../components/ui/dialog";
 import { EditJobDetailsForm } from "./job-form";
 import { JOB_STATUS_LABELS, JOB_STATUSES, JobStatusBadge } from "./job-status";
 import { SystemsSection } from "./systems-section";
@@ -216,9 +216,9 @@ function JobView({ job, canWrite }: { job: JobDetail; canWrite: boolean }) {
       </section>
 
       {editing ? (
-        <FormDialog title="Edit job details" onClose={() => setEditing(false)}>
+        <Dialog size="md" closeButton title="Edit job details" onClose={() => setEditing(false)}>
           <EditJobDetailsForm job={job} onSaved={() => setEditing(false)} onCancel={() => setEditing(false)} />
-        </FormDialog>
+        </Dialog>
       ) : null}
       {deleting ? (
         <ConfirmDialog title={`Delete ${job.title}?`} confirmLabel="Delete job" pending={remove.isPending} onConfirm={confirmDelete} onCancel={() => setDeleting(false)}>

@@ -9,8 +9,8 @@ import { formatDate } from "../../../utils/format-date";
 import { DEFAULT_JOB_SORT, JOB_SORT_FIELDS, useJobs, type JobListParams } from "../api/get-jobs";
 import { sortValues, useListParams } from "../hooks/use-list-params";
 import { isJobStatus, JOB_STATUS_LABELS, JOB_STATUSES, JobStatusBadge } from "./job-status";
-import { Pager, PlainHeader, SearchInput, SortHeader, staleClass } from "./list-controls";
-import { LoadStatusLabel } from "./load-status";
+import { Pager, PlainHeader, SearchInput, SortHeader, staleClass } from "../../../components/ui/list-controls";
+import { LoadStatusLabel } from "../../../components/ui/load-status";
 
 const cellClass = "px-3 py-2 align-middle";
 const SORTS = sortValues(JOB_SORT_FIELDS);

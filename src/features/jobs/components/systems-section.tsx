@@ -4,9 +4,10 @@ import type { SystemSummary } from "../../../../shared/schemas/jobs";
 import { primaryButtonClass } from "../../../components/ui/form";
 import { paths } from "../../../config/paths";
 import { formatDate } from "../../../utils/format-date";
-import { FormDialog } from "./form-dialog";
-import { LoadStatusLabel } from "./load-status";
+import { Dialog } from "../../../components/ui/dialog";
+import { LoadStatusLabel } from "../../../components/ui/load-status";
 import { NewSystemForm } from "./new-system-form";
+import { CautionsPanel } from "../../../components/ui/cautions-panel";
 
 const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
 
@@ -102,15 +103,16 @@ export function SystemsSection({ jobId, systems, canWrite }: SystemsSectionProps
           ))}
         </ul>
       )}
+      {systems.length > 0 ? <CautionsPanel /> : null}
       {creating ? (
-        <FormDialog title="New system" description="It starts with a battery bank on a bus bar at the nominal voltage." onClose={() => setCreating(false)}>
+        <Dialog size="md" closeButton title="New system" description="It starts with a battery bank on a bus bar at the nominal voltage." onClose={() => setCreating(false)}>
           <NewSystemForm
             jobId={jobId}
             defaultUnits={systems[0]?.units}
             onCreated={(system) => navigate(paths.system.getHref(jobId, system.id))}
             onCancel={() => setCreating(false)}
           />
-        </FormDialog>
+        </Dialog>
       ) : null}
     </section>
   );

@@ -5,8 +5,8 @@ import { ConfirmDialog } from "../../../components/ui/confirm-dialog";
 import { dangerButtonClass, FormAlert, primaryButtonClass, secondaryButtonClass } from "../../../components/ui/form";
 import { ApiError } from "../../../lib/api-client";
 import { cn } from "../../../utils/cn";
-import { FormDialog } from "../../jobs/components/form-dialog";
-import { Pager, PlainHeader, staleClass } from "../../jobs/components/list-controls";
+import { Dialog } from "../../../components/ui/dialog";
+import { Pager, PlainHeader, staleClass } from "../../../components/ui/list-controls";
 import { useDeleteLimitProfile } from "../api/delete-limit-profile";
 import { ALL_LIMIT_PROFILES, useLimitProfiles } from "../api/get-limit-profiles";
 import { LimitProfileFormPanel, type LimitProfileFormMode } from "./limit-profile-form";
@@ -152,13 +152,14 @@ export function LimitProfileTable({ canWrite }: { canWrite: boolean }) {
       <FormAlert message={alert} />
       {body}
       {form ? (
-        <FormDialog
+        <Dialog
           title={form.mode === "edit" ? `Edit ${form.profile.name}` : form.mode === "duplicate" ? `Duplicate ${form.from.name}` : "New limit profile"}
-          wide
+          size="lg"
+          closeButton
           onClose={() => setForm(null)}
         >
           <LimitProfileFormPanel target={form} onSaved={() => setForm(null)} onCancel={() => setForm(null)} />
-        </FormDialog>
+        </Dialog>
       ) : null}
       {deleting ? (
         <ConfirmDialog title={`Delete ${deleting.name}?`} confirmLabel="Delete profile" pending={remove.isPending} onConfirm={confirmDelete} onCancel={() => setDeleting(null)}>

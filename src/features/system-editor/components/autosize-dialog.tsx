@@ -1,15 +1,15 @@
 import type { LoadStatus } from "../../../../shared/engine/system";
+import { Dialog } from "../../../components/ui/dialog";
+import { LoadStatusLabel } from "../../../components/ui/load-status";
 import { primaryButtonClass, secondaryButtonClass } from "../../../components/ui/form";
-import type { AutosizeAnswer } from "../../systems/api/autosize-system";
+import type { AutosizeAnswer, AutosizeProposal } from "../../systems/api/autosize-system";
 import { fixed, formatMoney, formatSize } from "../lib/format";
-import { Modal } from "./modal";
-import { StatusBadge } from "./status";
 
 const asStatus = (s: string): LoadStatus | null => (s === "within" || s === "near" || s === "over" ? s : null);
 
 function Status({ value }: { value: string }) {
   const s = asStatus(value);
-  return s ? <StatusBadge status={s} /> : <span>{value}</span>;
+  return s ? <LoadStatusLabel status={s} /> : <span>{value}</span>;
 }
 
 export interface AutosizeDialogProps {
@@ -18,49 +18,12 @@ export interface AutosizeDialogProps {
   onDiscard(): void;
 }
 
-/** "Auto-size proposal": the runs it changes, every load before → after, and what it costs. Nothing is saved. */
-export function AutosizeDialog({ answer, onApply, onDiscard }: AutosizeDialogProps) {
-  if (!answer.ok) {
-    return (
-      <Modal
-        title="Auto-size proposal"
-        onClose={onDiscard}
-        actions={
-          <button type="button" onClick={onDiscard} className={secondaryButtonClass}>
-            Discard
-          </button>
-        }
-      >
-        <p role="alert" className="font-medium text-over-700">
-          No proposal: the layout cannot be auto-sized as it is.
-        </p>
-        <ul className="mt-2 list-disc space-y-1 pl-5">
-          {answer.errors.map((e, i) => (
-            <li key={`${e.code}-${i}`}>{e.message}</li>
-          ))}
-        </ul>
-      </Modal>
-    );
-  }
-  const changed = answer.runs.filter((r) => r.changed);
+/** The proposal itself: the runs it changes, every load before → after, and what it costs. */
+function Proposal({ answer, changed }: { answer: AutosizeProposal; changed: AutosizeProposal["runs"] }) {
   const currency = answer.currency;
   const difference = answer.costDifference;
   return (
-    <Modal
-      title="Auto-size proposal"
-      wide
-      onClose={onDiscard}
-      actions={
-        <>
-          <button type="button" onClick={onDiscard} className={secondaryButtonClass}>
-            Discard
-          </button>
-          <button type="button" onClick={onApply} disabled={changed.length === 0} className={primaryButtonClass}>
-            Apply proposal
-          </button>
-        </>
-      }
-    >
+    <>
       {!answer.passes ? (
         <p role="alert" className="mb-3 rounded-md border border-over-100 bg-over-50 px-3 py-2 font-semibold text-over-700">
           No set of the priced sizes makes every load pass every case. The proposal below is the closest it found; look at the layout itself (shorter runs,
@@ -129,6 +92,45 @@ export function AutosizeDialog({ answer, onApply, onDiscard }: AutosizeDialogPro
           ))}
         </ul>
       ) : null}
-    </Modal>
+    </>
+  );
+}
+
+/** "Auto-size proposal": the runs it changes, every load before → after, and what it costs. Nothing is saved. */
+export function AutosizeDialog({ answer, onApply, onDiscard }: AutosizeDialogProps) {
+  const changed = answer.ok ? answer.runs.filter((r) => r.changed) : [];
+  return (
+    <Dialog
+      title="Auto-size proposal"
+      size={answer.ok ? "lg" : "sm"}
+      onClose={onDiscard}
+      footer={
+        <>
+          <button type="button" onClick={onDiscard} className={secondaryButtonClass}>
+            Discard
+          </button>
+          {answer.ok ? (
+            <button type="button" onClick={onApply} disabled={changed.length === 0} className={primaryButtonClass}>
+              Apply proposal
+            </button>
+          ) : null}
+        </>
+      }
+    >
+      {answer.ok ? (
+        <Proposal answer={answer} changed={changed} />
+      ) : (
+        <>
+          <p role="alert" className="font-medium text-over-700">
+            No proposal: the layout cannot be auto-sized as it is.
+          </p>
+          <ul className="mt-2 list-disc space-y-1 pl-5">
+            {answer.errors.map((e, i) => (
+              <li key={`${e.code}-${i}`}>{e.message}</li>
+            ))}
+          </ul>
+        </>
+      )}
+    </Dialog>
   );
 }

@@ -1,7 +1,7 @@
 import type { z } from "zod";
 import type { SystemConflictDetails } from "../../../../shared/schemas/jobs";
+import { Dialog } from "../../../components/ui/dialog";
 import { primaryButtonClass, secondaryButtonClass } from "../../../components/ui/form";
-import { Modal } from "./modal";
 
 const when = new Intl.DateTimeFormat(undefined, { dateStyle: "medium", timeStyle: "short" });
 const formatWhen = (iso: string) => {
@@ -21,11 +21,11 @@ export interface ConflictDialogProps {
 /** The 409 of a stale save: take their version or put mine over it. */
 export function ConflictDialog({ details, pending, error, onReload, onOverwrite, onClose }: ConflictDialogProps) {
   return (
-    <Modal
+    <Dialog
       title="This system was changed by someone else"
       onClose={onClose}
       busy={pending !== null}
-      actions={
+      footer={
         <>
           <button type="button" onClick={onReload} disabled={pending !== null} className={secondaryButtonClass}>
             {pending === "reload" ? "Reloading…" : "Reload their version"}
@@ -41,6 +41,6 @@ export function ConflictDialog({ details, pending, error, onReload, onOverwrite,
       </p>
       <p className="mt-2">Reload their version to drop your changes here, or overwrite theirs with yours.</p>
       {error ? <p className="mt-2 font-medium text-over-700">{error}</p> : null}
-    </Modal>
+    </Dialog>
   );
 }

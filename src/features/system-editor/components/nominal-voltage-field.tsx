@@ -1,4 +1,4 @@
-import { useEffect, useId, useState } from "react";
+import { useId, useState } from "react";
 import { inlineControlClass } from "./control";
 
 const MIN_V = 1;
@@ -9,10 +9,13 @@ export function NominalVoltageField({ value, onChange, disabled }: { value: numb
   const id = useId();
   const [text, setText] = useState(String(value));
   const [error, setError] = useState<string | null>(null);
-  useEffect(() => {
+  // A new value from outside (a reload, another edit) replaces the text in the same render, never a frame later.
+  const [shown, setShown] = useState(value);
+  if (!Object.is(shown, value)) {
+    setShown(value);
     setText(String(value));
     setError(null);
-  }, [value]);
+  }
 
   const commit = () => {
     const volts = Number(text.trim().replace(",", "."));

@@ -2,6 +2,7 @@ import { memo, useCallback, useEffect, useMemo, useRef, useState, type KeyboardE
 import type { SystemInput } from "../../../../shared/engine/schema";
 import type { CaseResult, LoadStatus, SolveSuccess } from "../../../../shared/engine/system";
 import { secondaryButtonClass } from "../../../components/ui/form";
+import { LoadStatusGlyph } from "../../../components/ui/load-status";
 import type { ElementKind, Selection } from "../selection";
 import { COPPER, fixed, formatLength, formatSize, INK, STATUS_COLOUR, STATUS_LABEL } from "../lib/format";
 import { useElementWidth } from "../hooks/use-element-width";
@@ -103,31 +104,6 @@ interface NodeFigures {
   ariaLabel: string;
 }
 
-/** A status mark drawn in SVG (the same shapes as the tables' icons). */
-function SvgStatusMark({ status, x, y }: { status: LoadStatus; x: number; y: number }) {
-  const c = STATUS_COLOUR[status].stroke;
-  return (
-    <g transform={`translate(${x - 8},${y - 8})`} fill="none" stroke={c} strokeWidth={1.8} strokeLinecap="round" strokeLinejoin="round">
-      {status === "within" ? (
-        <>
-          <circle cx="8" cy="8" r="6.5" />
-          <path d="M5 8.3l2 2 4-4.3" />
-        </>
-      ) : status === "near" ? (
-        <>
-          <path d="M8 1.8l6.5 12H1.5z" />
-          <path d="M8 6.5v3.3M8 11.9v.1" />
-        </>
-      ) : (
-        <>
-          <path d="M5.2 1.5h5.6l3.7 3.7v5.6l-3.7 3.7H5.2l-3.7-3.7V5.2z" />
-          <path d="M5.7 5.7l4.6 4.6M10.3 5.7l-4.6 4.6" />
-        </>
-      )}
-    </g>
-  );
-}
-
 function NodeShape({ node, figures, sourceType, selected }: { node: LayoutNode; figures: NodeFigures; sourceType?: string; selected: boolean }) {
   const left = node.x - node.width / 2;
   const top = node.y - node.height / 2;
@@ -195,7 +171,7 @@ function NodeShape({ node, figures, sourceType, selected }: { node: LayoutNode; 
       </text>
       {figures.status ? (
         <>
-          <SvgStatusMark status={figures.status} x={left + 18} y={top + 50} />
+          <LoadStatusGlyph status={figures.status} x={left + 18} y={top + 50} stroke={STATUS_COLOUR[figures.status].stroke} />
           <text x={left + 30} y={top + 54} fontSize={11} fontWeight={figures.status === "over" ? 700 : 500} fill={colours.text} fontFamily={FONT}>
             {STATUS_LABEL[figures.status]}
           </text>

@@ -1,11 +1,12 @@
 import { memo, useMemo } from "react";
 import type { SystemInput } from "../../../../shared/engine/schema";
 import type { SolveSuccess } from "../../../../shared/engine/system";
+import { LoadStatusLabel } from "../../../components/ui/load-status";
 import { cn } from "../../../utils/cn";
 import type { Selection } from "../selection";
 import { checkedDrop, fixed, limitText } from "../lib/format";
 import { loadRows, statusSummary } from "../lib/results";
-import { StatusBadge } from "./status";
+import { RowCapNote, useRowCap } from "./row-cap";
 
 export interface ResultsLoadsTableProps {
   doc: SystemInput;
@@ -20,6 +21,7 @@ const td = "px-2 py-1.5 align-top";
 /** One row per load in its worst case, worst first, with the limit it was checked against. */
 export const ResultsLoadsTable = memo(function ResultsLoadsTable({ doc, result, selection, onSelect }: ResultsLoadsTableProps) {
   const rows = useMemo(() => loadRows(doc, result), [doc, result]);
+  const cap = useRowCap(rows, selection?.kind === "load" ? selection.id : null);
   return (
     <div className="space-y-2">
       <p role="status" className="text-sm font-medium text-ink-800">
@@ -43,7 +45,7 @@ export const ResultsLoadsTable = memo(function ResultsLoadsTable({ doc, result, 
               </tr>
             </thead>
             <tbody className="divide-y divide-ink-100">
-              {rows.map((row) => {
+              {cap.shown.map((row) => {
                 const selected = selection?.kind === "load" && selection.id === row.id;
                 const over = row.worst.status === "over";
                 const lr = row.inWorstCase;
@@ -78,7 +80,7 @@ export const ResultsLoadsTable = memo(function ResultsLoadsTable({ doc, result, 
                     <td className={td}>{row.worst.worstCase}</td>
                     <td className={cn(td, "text-right")}>{lr ? fixed(lr.current, 2) : "—"}</td>
                     <td className={td}>
-                      <StatusBadge status={row.worst.status} />
+                      <LoadStatusLabel status={row.worst.status} />
                       {lr?.underVoltage ? <span className="block text-xs">below its minimum voltage</span> : null}
                     </td>
                     <td className={td}>
@@ -94,6 +96,7 @@ export const ResultsLoadsTable = memo(function ResultsLoadsTable({ doc, result, 
           </table>
         </div>
       )}
+      <RowCapNote cap={cap} noun="loads" />
     </div>
   );
 });

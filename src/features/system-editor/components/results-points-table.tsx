@@ -2,6 +2,7 @@ import { memo, useMemo } from "react";
 import type { SystemInput } from "../../../../shared/engine/schema";
 import type { CaseResult, Finding } from "../../../../shared/engine/system";
 import { cn } from "../../../utils/cn";
+import { RowCapNote, useRowCap } from "./row-cap";
 import type { Selection } from "../selection";
 import { fixed, formatFault } from "../lib/format";
 import { faultFindingsByPoint } from "../lib/results";
@@ -22,6 +23,7 @@ export const ResultsPointsTable = memo(function ResultsPointsTable({ doc, kase, 
   const pointIds = useMemo(() => new Set(doc.points.map((p) => p.id)), [doc.points]);
   const fault = useMemo(() => faultFindingsByPoint(findings, pointIds), [findings, pointIds]);
   const byId = useMemo(() => new Map(kase.points.map((p) => [p.id, p])), [kase]);
+  const cap = useRowCap(doc.points, selection?.kind === "point" ? selection.id : null);
   if (doc.points.length === 0) return <p className="text-sm text-ink-500">No points yet: add one in the Points table.</p>;
   return (
     <div className="overflow-x-auto rounded-md border border-ink-100">
@@ -36,7 +38,7 @@ export const ResultsPointsTable = memo(function ResultsPointsTable({ doc, kase, 
           </tr>
         </thead>
         <tbody className="divide-y divide-ink-100">
-          {doc.points.map((point) => {
+          {cap.shown.map((point) => {
             const pr = byId.get(point.id);
             const problems = fault.get(point.id) ?? [];
             const selected = selection?.kind === "point" && selection.id === point.id;
@@ -83,6 +85,7 @@ export const ResultsPointsTable = memo(function ResultsPointsTable({ doc, kase, 
           })}
         </tbody>
       </table>
+      <RowCapNote cap={cap} noun="points" />
     </div>
   );
 });

@@ -2,6 +2,7 @@ import { memo, useMemo } from "react";
 import type { SystemInput } from "../../../../shared/engine/schema";
 import type { CaseResult, Finding } from "../../../../shared/engine/system";
 import { cn } from "../../../utils/cn";
+import { RowCapNote, useRowCap } from "./row-cap";
 import type { Selection } from "../selection";
 import { fixed, formatSize, lengthUnit } from "../lib/format";
 import { fuseFindingsByRun } from "../lib/results";
@@ -38,6 +39,7 @@ function AmpacityUse({ percent }: { percent: number | null }) {
 export const ResultsRunsTable = memo(function ResultsRunsTable({ doc, kase, findings, selection, onSelect }: ResultsRunsTableProps) {
   const fuse = useMemo(() => fuseFindingsByRun(findings), [findings]);
   const byId = useMemo(() => new Map(kase.runs.map((r) => [r.id, r])), [kase]);
+  const cap = useRowCap(doc.runs, selection?.kind === "run" ? selection.id : null);
   if (doc.runs.length === 0) return <p className="text-sm text-ink-500">No runs yet: add one in the Runs table.</p>;
   return (
     <div className="overflow-x-auto rounded-md border border-ink-100">
@@ -57,7 +59,7 @@ export const ResultsRunsTable = memo(function ResultsRunsTable({ doc, kase, find
           </tr>
         </thead>
         <tbody className="divide-y divide-ink-100">
-          {doc.runs.map((run) => {
+          {cap.shown.map((run) => {
             const rr = byId.get(run.id);
             const problems = fuse.get(run.id) ?? [];
             const selected = selection?.kind === "run" && selection.id === run.id;
@@ -115,6 +117,7 @@ export const ResultsRunsTable = memo(function ResultsRunsTable({ doc, kase, find
           })}
         </tbody>
       </table>
+      <RowCapNote cap={cap} noun="runs" />
     </div>
   );
 });

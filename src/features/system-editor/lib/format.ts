@@ -1,12 +1,9 @@
 // How the System editor writes figures, sizes, statuses and limits. One place, so the tables,
 // the diagram and the charts say the same thing the same way.
 import type { LoadResult, LoadStatus } from "../../../../shared/engine/system";
+import { LOAD_STATUS_LABELS } from "../../../components/ui/load-status";
 
-export const STATUS_LABEL: Record<LoadStatus, string> = {
-  within: "Within limit",
-  near: "Near limit",
-  over: "Over limit",
-};
+export const STATUS_LABEL: Record<LoadStatus, string> = LOAD_STATUS_LABELS;
 
 /** Worst first. */
 export const STATUS_RANK: Record<LoadStatus, number> = { over: 2, near: 1, within: 0 };

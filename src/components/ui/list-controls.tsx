@@ -1,8 +1,8 @@
 // Pieces every list screen shares (jobs, clients, limit profiles): sortable column
 // headers, the pager and the debounced search box.
 import { useEffect, useRef, useState, type ReactNode } from "react";
-import { controlClass, secondaryButtonClass } from "../../../components/ui/form";
-import { cn } from "../../../utils/cn";
+import { controlClass, secondaryButtonClass } from "./form";
+import { cn } from "../../utils/cn";
 
 /** "name" → ascending by name, "-name" → descending. */
 export function sortDirection(sort: string, field: string): "ascending" | "descending" | "none" {
