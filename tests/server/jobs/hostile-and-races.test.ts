@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { performance } from "node:perf_hooks";
 import { Client, Job, LimitProfile } from "../../../server/db/entities/index.js";
-import { DEMO_COMPANY_ID, DEMO_JOBS, seedDemo } from "../../../server/db/seed.js";
+import { DEMO_CLIENTS, DEMO_COMPANY_ID, DEMO_JOBS, seedDemo } from "../../../server/db/seed.js";
 import { signUpCompany } from "../../support/accounts.js";
 import { useTestApp } from "../../support/app.js";
 import { exampleSystem, TINY_PNG } from "../../support/jobs.js";
@@ -149,9 +149,12 @@ describe("the demo seed does not undo what people changed", () => {
     const garden = DEMO_JOBS[1];
     await t.db.getRepository(Job).delete({ id: garden.id });
     await t.db.getRepository(LimitProfile).update({ companyId: DEMO_COMPANY_ID, name: "Company custom" }, { name: "Our spec" });
+    // Other test files may have added their own clients to the demo company: compare with before.
+    const clientsBefore = await t.db.getRepository(Client).countBy({ companyId: DEMO_COMPANY_ID });
     await seedDemo(t.db);
     expect(await t.db.getRepository(Job).existsBy({ id: garden.id })).toBe(false);
     expect(await t.db.getRepository(LimitProfile).countBy({ companyId: DEMO_COMPANY_ID, name: "Company custom" })).toBe(0);
-    expect(await t.db.getRepository(Client).countBy({ companyId: DEMO_COMPANY_ID })).toBe(2);
+    expect(await t.db.getRepository(Client).countBy({ companyId: DEMO_COMPANY_ID })).toBe(clientsBefore);
+    expect(await t.db.getRepository(Client).countBy(DEMO_CLIENTS.map((c) => ({ id: c.id })))).toBe(DEMO_CLIENTS.length);
   });
 });
