@@ -16,7 +16,7 @@ export interface ResultsLoadsTableProps {
 }
 
 const th = "px-2 py-2 text-left font-semibold whitespace-nowrap";
-const td = "px-2 py-1.5 align-top";
+const td = "px-2 py-1.5 align-top whitespace-nowrap";
 
 /** One row per load in its worst case, worst first, with the limit it was checked against. */
 export const ResultsLoadsTable = memo(function ResultsLoadsTable({ doc, result, selection, onSelect }: ResultsLoadsTableProps) {

@@ -16,7 +16,7 @@ export interface ResultsPointsTableProps {
 }
 
 const th = "px-2 py-2 text-left font-semibold whitespace-nowrap";
-const td = "px-2 py-1.5 align-top";
+const td = "px-2 py-1.5 align-top whitespace-nowrap";
 
 /** Every point in one case: voltage and the available fault current against the interrupting ratings. */
 export const ResultsPointsTable = memo(function ResultsPointsTable({ doc, kase, findings, selection, onSelect }: ResultsPointsTableProps) {
@@ -69,7 +69,7 @@ export const ResultsPointsTable = memo(function ResultsPointsTable({ doc, kase, 
                   {problems.length > 0 ? (
                     <ul className="space-y-1">
                       {problems.map((f) => (
-                        <li key={f.message} className="max-w-sm font-semibold text-over-700">
+                        <li key={f.message} className="min-w-[14rem] max-w-sm whitespace-normal font-semibold text-over-700">
                           {f.message}
                         </li>
                       ))}

@@ -17,7 +17,7 @@ export interface ResultsRunsTableProps {
 }
 
 const th = "px-2 py-2 text-left font-semibold whitespace-nowrap";
-const td = "px-2 py-1.5 align-top";
+const td = "px-2 py-1.5 align-top whitespace-nowrap";
 
 /** Ampacity use as a bar and a number; "—" when the reference table has no value for the size. */
 function AmpacityUse({ percent }: { percent: number | null }) {
@@ -105,7 +105,7 @@ export const ResultsRunsTable = memo(function ResultsRunsTable({ doc, kase, find
                   ) : (
                     <ul className="space-y-1">
                       {problems.map((f) => (
-                        <li key={f.code} className={cn("max-w-xs", f.severity === "error" ? "font-semibold text-over-700" : "text-near-700")}>
+                        <li key={f.code} className={cn("min-w-[14rem] max-w-xs whitespace-normal", f.severity === "error" ? "font-semibold text-over-700" : "text-near-700")}>
                           {f.message}
                         </li>
                       ))}
