@@ -1,10 +1,11 @@
 import { Link, useParams } from "react-router-dom";
 import { EmptyState } from "../../components/ui/empty-state";
-import { FormAlert, secondaryButtonClass } from "../../components/ui/form";
+import { secondaryButtonClass } from "../../components/ui/form";
 import { paths } from "../../config/paths";
 import { ApiError } from "../../lib/api-client";
 import { SystemEditor } from "../../features/system-editor/components/system-editor";
 import { useSystem } from "../../features/systems/api/get-system";
+import { LoadFailed } from "../../components/ui/load-failed";
 
 function LoadingSystem() {
   return (
@@ -38,10 +39,7 @@ export default function SystemScreen() {
     return (
       <div className="mx-auto mt-10 max-w-md space-y-3">
         <h1 className="text-lg font-semibold text-ink-900">The system could not be loaded</h1>
-        <FormAlert message={system.error.message} />
-        <button type="button" disabled={system.isFetching} onClick={() => void system.refetch()} className={secondaryButtonClass}>
-          {system.isFetching ? "Trying again…" : "Try again"}
-        </button>
+        <LoadFailed message={system.error.message} retrying={system.isFetching} onRetry={() => void system.refetch()} />
       </div>
     );
   }

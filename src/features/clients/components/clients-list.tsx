@@ -15,6 +15,7 @@ import { sortValues, useListParams } from "../../jobs/hooks/use-list-params";
 import { useDeleteClient } from "../api/delete-client";
 import { CLIENT_SORT_FIELDS, DEFAULT_CLIENT_SORT, useClients } from "../api/get-clients";
 import { ClientForm } from "./client-form";
+import { LoadFailed } from "../../../components/ui/load-failed";
 
 const cellClass = "px-3 py-2 align-middle";
 const SORTS = sortValues(CLIENT_SORT_FIELDS);
@@ -64,12 +65,7 @@ export function ClientsList({ canWrite }: { canWrite: boolean }) {
     body = <p className="text-sm text-ink-500">Loading clients…</p>;
   } else if (error && !data) {
     body = (
-      <div className="space-y-3">
-        <FormAlert message={`The clients could not be loaded. ${error.message}`} />
-        <button type="button" disabled={isFetching} onClick={() => void refetch()} className={secondaryButtonClass}>
-          {isFetching ? "Trying again…" : "Try again"}
-        </button>
-      </div>
+      <LoadFailed message={`The clients could not be loaded. ${error.message}`} retrying={isFetching} onRetry={() => void refetch()} />
     );
   } else if (data && data.total === 0 && !search) {
     body = (

@@ -1,7 +1,7 @@
 import type { CompanySettings } from "../../../../shared/schemas/company";
-import { FormAlert, secondaryButtonClass } from "../../../components/ui/form";
 import { useCompany } from "../api/get-company";
 import { CompanySettingsForm } from "./company-settings-form";
+import { LoadFailed } from "../../../components/ui/load-failed";
 
 /** Loads the company's settings and shows them in the form (editable for the Owner). */
 export function CompanySettingsPanel({ canEdit, onSaved }: { canEdit: boolean; onSaved?: (company: CompanySettings) => void }) {
@@ -9,12 +9,7 @@ export function CompanySettingsPanel({ canEdit, onSaved }: { canEdit: boolean; o
   if (isPending) return <p className="mt-6 text-sm text-ink-500">Loading settings…</p>;
   if (error) {
     return (
-      <div className="mt-6 max-w-xl space-y-3">
-        <FormAlert message={error.message} />
-        <button type="button" disabled={isFetching} onClick={() => void refetch()} className={secondaryButtonClass}>
-          {isFetching ? "Trying again…" : "Try again"}
-        </button>
-      </div>
+      <LoadFailed className="mt-6 max-w-xl" message={error.message} retrying={isFetching} onRetry={() => void refetch()} />
     );
   }
   return <CompanySettingsForm key={data.id} company={data} canEdit={canEdit} onSaved={onSaved} />;

@@ -21,6 +21,7 @@ import { Dialog } from "../../../components/ui/dialog";
 import { EditJobDetailsForm } from "./job-form";
 import { JOB_STATUS_LABELS, JOB_STATUSES, JobStatusBadge } from "./job-status";
 import { SystemsSection } from "./systems-section";
+import { LoadFailed } from "../../../components/ui/load-failed";
 
 const linkButtonClass = "rounded-md bg-ink-900 px-4 py-2 text-sm font-medium text-white hover:bg-ink-800";
 
@@ -236,12 +237,7 @@ export function JobPage({ jobId, canWrite }: { jobId: string; canWrite: boolean 
   if (error) {
     if (error instanceof ApiError && error.status === 404) return <JobNotFound />;
     return (
-      <div className="max-w-xl space-y-3">
-        <FormAlert message={`The job could not be loaded. ${error.message}`} />
-        <button type="button" disabled={isFetching} onClick={() => void refetch()} className={secondaryButtonClass}>
-          {isFetching ? "Trying again…" : "Try again"}
-        </button>
-      </div>
+      <LoadFailed className="max-w-xl" message={`The job could not be loaded. ${error.message}`} retrying={isFetching} onRetry={() => void refetch()} />
     );
   }
   return <JobView job={data} canWrite={canWrite} />;

@@ -1,7 +1,7 @@
 import { Link } from "react-router-dom";
 import { JobLimits } from "../../../../shared/schemas/jobs";
 import { EmptyState } from "../../../components/ui/empty-state";
-import { controlClass, FormAlert, secondaryButtonClass } from "../../../components/ui/form";
+import { controlClass, FormAlert } from "../../../components/ui/form";
 import { RunIcon } from "../../../components/ui/icons";
 import { paths } from "../../../config/paths";
 import { cn } from "../../../utils/cn";
@@ -11,6 +11,7 @@ import { sortValues, useListParams } from "../hooks/use-list-params";
 import { isJobStatus, JOB_STATUS_LABELS, JOB_STATUSES, JobStatusBadge } from "./job-status";
 import { Pager, PlainHeader, SearchInput, SortHeader, staleClass } from "../../../components/ui/list-controls";
 import { LoadStatusLabel } from "../../../components/ui/load-status";
+import { LoadFailed } from "../../../components/ui/load-failed";
 
 const cellClass = "px-3 py-2 align-middle";
 const SORTS = sortValues(JOB_SORT_FIELDS);
@@ -47,12 +48,7 @@ export function JobsList({ canCreate = false }: { canCreate?: boolean }) {
     body = <p className="text-sm text-ink-500">Loading jobs…</p>;
   } else if (error && !data) {
     body = (
-      <div className="space-y-3">
-        <FormAlert message={`The jobs could not be loaded. ${error.message}`} />
-        <button type="button" disabled={isFetching} onClick={() => void refetch()} className={secondaryButtonClass}>
-          {isFetching ? "Trying again…" : "Try again"}
-        </button>
-      </div>
+      <LoadFailed message={`The jobs could not be loaded. ${error.message}`} retrying={isFetching} onRetry={() => void refetch()} />
     );
   } else if (data && data.total === 0 && !filtered) {
     body = (

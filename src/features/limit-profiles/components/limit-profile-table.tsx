@@ -10,6 +10,7 @@ import { Pager, PlainHeader, staleClass } from "../../../components/ui/list-cont
 import { useDeleteLimitProfile } from "../api/delete-limit-profile";
 import { ALL_LIMIT_PROFILES, useLimitProfiles } from "../api/get-limit-profiles";
 import { LimitProfileFormPanel, type LimitProfileFormMode } from "./limit-profile-form";
+import { LoadFailed } from "../../../components/ui/load-failed";
 
 const cellClass = "px-3 py-2 align-top";
 const percent = (value: number) => `${Number(value.toFixed(3))} %`;
@@ -45,12 +46,7 @@ export function LimitProfileTable({ canWrite }: { canWrite: boolean }) {
   if (isPending) body = <p className="text-sm text-ink-500">Loading limit profiles…</p>;
   else if (error && !data) {
     body = (
-      <div className="space-y-3">
-        <FormAlert message={`The limit profiles could not be loaded. ${error.message}`} />
-        <button type="button" disabled={isFetching} onClick={() => void refetch()} className={secondaryButtonClass}>
-          {isFetching ? "Trying again…" : "Try again"}
-        </button>
-      </div>
+      <LoadFailed message={`The limit profiles could not be loaded. ${error.message}`} retrying={isFetching} onRetry={() => void refetch()} />
     );
   } else if (data && data.items.length === 0) {
     body = (

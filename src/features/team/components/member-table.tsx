@@ -1,11 +1,12 @@
 import { useState } from "react";
 import { ROLE_LABELS, ROLES, type Member, type Role } from "../../../../shared/schemas/team";
 import { ConfirmDialog } from "../../../components/ui/confirm-dialog";
-import { controlClass, dangerButtonClass, FormAlert, secondaryButtonClass } from "../../../components/ui/form";
+import { controlClass, dangerButtonClass, FormAlert } from "../../../components/ui/form";
 import { formatDate } from "../../../utils/format-date";
 import { useChangeRole } from "../api/change-role";
 import { useMembers } from "../api/get-members";
 import { useRemoveMember } from "../api/remove-member";
+import { LoadFailed } from "../../../components/ui/load-failed";
 
 interface MemberTableProps {
   /** The signed-in user: their row is marked. */
@@ -56,12 +57,7 @@ export function MemberTable({ currentUserId, companyName, canManage, onSelfChang
   if (isPending) return <p className="mt-6 text-sm text-ink-500">Loading members…</p>;
   if (error) {
     return (
-      <div className="mt-6 space-y-3">
-        <FormAlert message={error.message} />
-        <button type="button" disabled={isFetching} onClick={() => void refetch()} className={secondaryButtonClass}>
-          {isFetching ? "Trying again…" : "Try again"}
-        </button>
-      </div>
+      <LoadFailed className="mt-6" message={error.message} retrying={isFetching} onRetry={() => void refetch()} />
     );
   }
 
