@@ -7,6 +7,7 @@ import type { Selection } from "../selection";
 import { checkedDrop, fixed, limitText } from "../lib/format";
 import { loadRows, statusSummary } from "../lib/results";
 import { RowCapNote, useRowCap } from "./row-cap";
+import { isSelected, SelectButton, selectedRowClass } from "./select-button";
 
 export interface ResultsLoadsTableProps {
   doc: SystemInput;
@@ -46,7 +47,7 @@ export const ResultsLoadsTable = memo(function ResultsLoadsTable({ doc, result, 
             </thead>
             <tbody className="divide-y divide-ink-100">
               {cap.shown.map((row) => {
-                const selected = selection?.kind === "load" && selection.id === row.id;
+                const selected = isSelected(selection, "load", row.id);
                 const over = row.worst.status === "over";
                 const lr = row.inWorstCase;
                 return (
@@ -58,22 +59,14 @@ export const ResultsLoadsTable = memo(function ResultsLoadsTable({ doc, result, 
                     className={cn(
                       "cursor-pointer border-l-4",
                       over ? "border-l-over-500 bg-over-50 font-bold text-over-700" : row.worst.status === "near" ? "border-l-near-500" : "border-l-transparent",
-                      selected ? "outline outline-2 -outline-offset-2 outline-copper-500" : "hover:bg-ink-50",
+                      selectedRowClass(selected),
                     )}
                   >
                     <td className={td}>
-                      <button
-                        type="button"
-                        aria-current={selected ? "true" : undefined}
-                        onClick={(event) => {
-                          event.stopPropagation();
-                          onSelect({ kind: "load", id: row.id });
-                        }}
-                        className="text-left"
-                      >
+                      <SelectButton kind="load" id={row.id} selected={selected} onSelect={onSelect} className="text-left">
                         <span className="block">{row.name}</span>
                         {row.name !== row.id ? <span className="block text-xs font-normal text-ink-500">{row.id}</span> : null}
-                      </button>
+                      </SelectButton>
                     </td>
                     <td className={cn(td, "text-right")}>{fixed(row.worst.voltage, 2)}</td>
                     <td className={cn(td, "text-right")}>{fixed(row.worst.dropPercent, 2)}</td>

@@ -3,6 +3,7 @@ import type { SystemInput } from "../../../../shared/engine/schema";
 import type { CaseResult, Finding } from "../../../../shared/engine/system";
 import { cn } from "../../../utils/cn";
 import { RowCapNote, useRowCap } from "./row-cap";
+import { isSelected, SelectButton, selectedRowClass } from "./select-button";
 import type { Selection } from "../selection";
 import { fixed, formatFault } from "../lib/format";
 import { faultFindingsByPoint } from "../lib/results";
@@ -41,27 +42,19 @@ export const ResultsPointsTable = memo(function ResultsPointsTable({ doc, kase, 
           {cap.shown.map((point) => {
             const pr = byId.get(point.id);
             const problems = fault.get(point.id) ?? [];
-            const selected = selection?.kind === "point" && selection.id === point.id;
+            const selected = isSelected(selection, "point", point.id);
             return (
               <tr
                 key={point.id}
                 data-point-id={point.id}
                 onClick={() => onSelect({ kind: "point", id: point.id })}
-                className={cn("cursor-pointer", selected ? "outline outline-2 -outline-offset-2 outline-copper-500" : "hover:bg-ink-50")}
+                className={cn("cursor-pointer", selectedRowClass(selected))}
               >
                 <td className={td}>
-                  <button
-                    type="button"
-                    aria-current={selected ? "true" : undefined}
-                    onClick={(event) => {
-                      event.stopPropagation();
-                      onSelect({ kind: "point", id: point.id });
-                    }}
-                    className="text-left"
-                  >
+                  <SelectButton kind="point" id={point.id} selected={selected} onSelect={onSelect} className="text-left">
                     <span className="block font-medium">{point.id}</span>
                     {point.name ? <span className="block text-xs text-ink-500">{point.name}</span> : null}
-                  </button>
+                  </SelectButton>
                 </td>
                 <td className={cn(td, "text-right")}>{pr ? fixed(pr.voltage, 2) : "—"}</td>
                 <td className={cn(td, "text-right")}>{pr ? formatFault(pr.faultCurrentA) : "—"}</td>

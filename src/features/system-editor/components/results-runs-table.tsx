@@ -3,6 +3,7 @@ import type { SystemInput } from "../../../../shared/engine/schema";
 import type { CaseResult, Finding } from "../../../../shared/engine/system";
 import { cn } from "../../../utils/cn";
 import { RowCapNote, useRowCap } from "./row-cap";
+import { isSelected, SelectButton, selectedRowClass } from "./select-button";
 import type { Selection } from "../selection";
 import { fixed, formatSize, lengthUnit } from "../lib/format";
 import { fuseFindingsByRun } from "../lib/results";
@@ -62,26 +63,18 @@ export const ResultsRunsTable = memo(function ResultsRunsTable({ doc, kase, find
           {cap.shown.map((run) => {
             const rr = byId.get(run.id);
             const problems = fuse.get(run.id) ?? [];
-            const selected = selection?.kind === "run" && selection.id === run.id;
+            const selected = isSelected(selection, "run", run.id);
             return (
               <tr
                 key={run.id}
                 data-run-id={run.id}
                 onClick={() => onSelect({ kind: "run", id: run.id })}
-                className={cn("cursor-pointer", selected ? "outline outline-2 -outline-offset-2 outline-copper-500" : "hover:bg-ink-50")}
+                className={cn("cursor-pointer", selectedRowClass(selected))}
               >
                 <td className={td}>
-                  <button
-                    type="button"
-                    aria-current={selected ? "true" : undefined}
-                    onClick={(event) => {
-                      event.stopPropagation();
-                      onSelect({ kind: "run", id: run.id });
-                    }}
-                    className="text-left font-medium"
-                  >
+                  <SelectButton kind="run" id={run.id} selected={selected} onSelect={onSelect} className="text-left font-medium">
                     {run.id}
-                  </button>
+                  </SelectButton>
                 </td>
                 <td className={cn(td, "whitespace-nowrap")}>
                   {run.from} → {run.to}
