@@ -16,6 +16,10 @@ export const PERMISSIONS = {
   /** Clients, jobs, systems and attachments: everyone reads, Installers change nothing. */
   "jobs:read": ["owner", "estimator", "installer"],
   "jobs:write": ["owner", "estimator"],
+  /** The price list: Owners and Estimators keep it current; everyone reads it. */
+  "prices:write": ["owner", "estimator"],
+  /** Estimates and quotes: built and sent by Owners and Estimators (Installers read). */
+  "quotes:write": ["owner", "estimator"],
   /** Limit profiles are company policy: the Owner sets them. */
   "limits:write": ["owner"],
 } as const satisfies Record<string, readonly Role[]>;

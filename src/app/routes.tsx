@@ -24,6 +24,8 @@ export const routes: RouteObject[] = [
           { path: paths.jobs.path, lazy: lazyScreen(() => import("./routes/jobs")) },
           { path: paths.job.path, lazy: lazyScreen(() => import("./routes/job")) },
           { path: paths.system.path, lazy: lazyScreen(() => import("./routes/system")) },
+          { path: paths.estimate.path, lazy: lazyScreen(() => import("./routes/estimate")) },
+          { path: paths.quote.path, lazy: lazyScreen(() => import("./routes/quote")) },
           { path: paths.clients.path, lazy: lazyScreen(() => import("./routes/clients")) },
           { path: paths.priceList.path, lazy: lazyScreen(() => import("./routes/price-list")) },
           { path: paths.team.path, lazy: lazyScreen(() => import("./routes/team")) },
@@ -33,6 +35,12 @@ export const routes: RouteObject[] = [
         ],
       },
     ],
+  },
+  {
+    // The client's quote page: no session, the company's branding, no app frame.
+    path: paths.quoteLink.path,
+    hydrateFallbackElement: firstLoad,
+    lazy: lazyScreen(() => import("./routes/quote-link")),
   },
   {
     // Public pages: no session needed.

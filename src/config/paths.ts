@@ -4,6 +4,8 @@ export const paths = {
   jobs: { path: "/jobs", getHref: (query?: string) => (query ? `/jobs?${query}` : "/jobs") },
   job: { path: "/jobs/:jobId", getHref: (jobId: string) => `/jobs/${jobId}` },
   system: { path: "/jobs/:jobId/systems/:systemId", getHref: (jobId: string, systemId: string) => `/jobs/${jobId}/systems/${systemId}` },
+  estimate: { path: "/jobs/:jobId/estimate", getHref: (jobId: string) => `/jobs/${jobId}/estimate` },
+  quote: { path: "/jobs/:jobId/quotes/:quoteId", getHref: (jobId: string, quoteId: string) => `/jobs/${jobId}/quotes/${quoteId}` },
   clients: { path: "/clients", getHref: () => "/clients" },
   limitProfiles: { path: "/settings/limit-profiles", getHref: () => "/settings/limit-profiles" },
   priceList: { path: "/price-list", getHref: () => "/price-list" },
@@ -17,4 +19,6 @@ export const paths = {
   resetPassword: { path: "/reset-password", getHref: () => "/reset-password" },
   /** Opened from the invitation e-mail as /join#token=… */
   join: { path: "/join", getHref: () => "/join" },
+  /** The client's page of a sent quote, opened from the e-mail; no account. */
+  quoteLink: { path: "/q/:token", getHref: (token: string) => `/q/${token}` },
 } as const;
