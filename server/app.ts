@@ -25,6 +25,10 @@ import { clientRoutes } from "./routes/clients.routes.js";
 import { jobRoutes } from "./routes/jobs.routes.js";
 import { limitProfileRoutes } from "./routes/limit-profiles.routes.js";
 import { systemRoutes } from "./routes/systems.routes.js";
+import { priceListRoutes } from "./routes/price-list.routes.js";
+import { estimatingSettingsRoutes, jobEstimateRoutes, quoteRoutes } from "./routes/estimates.routes.js";
+import { quoteLinkRoutes } from "./routes/quote-links.routes.js";
+import { dashboardRoutes } from "./routes/dashboard.routes.js";
 
 export interface AppOptions {
   db: DataSource;
@@ -78,7 +82,8 @@ export function createApp(options: AppOptions): Express {
       autoLogging: { ignore: (req) => req.url === "/api/health" },
       // One short line per request: no headers, cookies or bodies in the log.
       serializers: {
-        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url }),
+        // A client link's token is a password to its quote: it never reaches the log.
+        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url.replace(/\/(q|quote-links)\/[^/?]+/, "/$1/[token]") }),
         res: (res: { statusCode: number }) => ({ status: res.statusCode }),
       },
     }),
@@ -110,13 +115,19 @@ export function createApp(options: AppOptions): Express {
   api.use(resolveAuth(db));
   api.use("/auth", authRoutes({ ...deps, passport }));
   api.use("/company", companyRoutes(deps));
+  api.use("/company", estimatingSettingsRoutes(deps));
   api.use("/members", memberRoutes(deps));
   api.use("/invitations", invitationRoutes(deps));
   api.use("/clients", clientRoutes(deps));
   api.use("/jobs", jobRoutes(deps));
+  api.use("/jobs", jobEstimateRoutes(deps));
   api.use("/systems", systemRoutes(deps));
   api.use("/limit-profiles", limitProfileRoutes(deps));
   api.use("/attachments", attachmentRoutes(deps));
+  api.use("/price-list", priceListRoutes(deps));
+  api.use("/quotes", quoteRoutes(deps));
+  api.use("/quote-links", quoteLinkRoutes(deps));
+  api.use("/dashboard", dashboardRoutes(deps));
   api.use(apiNotFound);
   app.use("/api", api);
 

@@ -14,6 +14,8 @@ export const HTTP_STATUS: Record<ApiErrorCode, number> = {
   unprocessable: 422,
   rate_limited: 429,
   internal: 500,
+  /** The mail server refused or could not be reached. */
+  mail_failed: 502,
   service_unavailable: 503,
 };
 

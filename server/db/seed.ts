@@ -1,7 +1,7 @@
 import type { DataSource } from "typeorm";
 import { hashPassword } from "../auth/passwords.js";
 import { readFileSync } from "node:fs";
-import { Client, Company, Job, LimitProfile, Membership, System, User } from "./entities/index.js";
+import { Client, Company, Job, LimitProfile, Membership, PriceItem, System, User } from "./entities/index.js";
 import { ensureDefaultLimitProfiles } from "../services/limit-profile.service.js";
 import { solveDocument, summarise } from "../services/system.service.js";
 import type { SystemInput } from "../../shared/engine/schema.js";
@@ -65,6 +65,7 @@ export async function seedDemo(db: DataSource): Promise<void> {
     if (fresh) await ensureDefaultLimitProfiles(tx, DEMO_COMPANY_ID);
   });
   await seedDemoJobs(db);
+  await seedDemoPriceList(db);
 }
 
 const example = (name: string) => JSON.parse(readFileSync(new URL(`../../shared/engine/examples/${name}.json`, import.meta.url), "utf8")) as SystemInput;
@@ -149,5 +150,46 @@ async function seedDemoJobs(db: DataSource): Promise<void> {
         }),
       );
     }
+  });
+}
+
+const DEMO_TERMS = [
+  "Prices are in US dollars and include the materials and labour listed. Work outside this scope is quoted separately.",
+  "A deposit is due on acceptance; the balance is due on completion. Materials remain ours until paid in full.",
+  "Cable routes and lengths are as laid out in the voltage-drop check; a change of route may change the price.",
+].join("\n");
+
+/**
+ * An invented price list in the demo company's currency (USD): copper cable per metre and per foot
+ * (costs from the engine's example costs files), lugs per size, fuses and holders, two devices. Only
+ * into a demo company with an empty price list, so edits and deletions stay.
+ */
+async function seedDemoPriceList(db: DataSource): Promise<void> {
+  await db.transaction(async (tx) => {
+    await tx.query(`SELECT id FROM company WHERE id = $1 FOR UPDATE`, [DEMO_COMPANY_ID]);
+    if (await tx.existsBy(PriceItem, { companyId: DEMO_COMPANY_ID })) return;
+    const items: Array<Partial<PriceItem>> = [];
+    const cents = (dollars: number) => Math.round(dollars * 100);
+    for (const [file, unit] of [["costs-metric", "m"], ["costs-imperial", "ft"]] as const) {
+      const costs = JSON.parse(readFileSync(new URL(`../../shared/engine/examples/${file}.json`, import.meta.url), "utf8")) as { items: Array<{ material?: string; size: string; cost: number }> };
+      for (const c of costs.items) {
+        const material = (c.material ?? "copper") as "copper" | "aluminum";
+        const sizeCode = c.size.replace(" mm2", "").replace(" AWG", "G").replace("/", "-");
+        items.push({ sku: `CU-${sizeCode}${unit === "ft" ? "-FT" : ""}`, description: `Tinned copper cable ${c.size.replace("mm2", "mm²")}, single conductor`, category: "cable", unit, unitCostMinor: cents(c.cost), cableSize: c.size, cableMaterial: material, conductors: 1 });
+        items.push({ sku: `LUG-${sizeCode}`, description: `Tinned copper lug for ${c.size.replace("mm2", "mm²")}, crimped and heat-shrunk`, category: "termination", unit: "each", unitCostMinor: cents(c.cost > 5 ? 4.2 : c.cost > 1.5 ? 1.9 : 0.65), cableSize: c.size });
+      }
+    }
+    for (const rating of [10, 15, 25, 50, 60, 80, 150]) {
+      items.push({ sku: `FUSE-${rating}`, description: `${rating} A DC fuse, ${rating >= 60 ? "bolt-down, 10 kA interrupting" : "blade, 2 kA interrupting"}`, category: "fuse", unit: "each", unitCostMinor: cents(rating >= 60 ? 18.5 : 2.4), ratingA: rating });
+    }
+    items.push({ sku: "FH-INLINE", description: "Sealed fuse holder with cover", category: "fuse", unit: "each", unitCostMinor: cents(14.75) });
+    items.push({ sku: "DEV-LED-PATH", description: "12 V LED path light, 4 W, bronze", category: "device", unit: "each", unitCostMinor: cents(38), sellPriceMinor: cents(64) });
+    items.push({ sku: "DEV-DCDC-24-12", description: "24 V to 12 V DC-DC converter, 20 A", category: "device", unit: "each", unitCostMinor: cents(96) });
+    items.push({ sku: "OTH-CONDUIT", description: "UV-rated flexible conduit", category: "other", unit: "m", unitCostMinor: cents(2.1) });
+    // Lugs are deduplicated by size across the metric and imperial lists.
+    const seen = new Set<string>();
+    const unique = items.filter((i) => !seen.has(i.sku as string) && seen.add(i.sku as string));
+    await tx.getRepository(PriceItem).insert(unique.map((i) => ({ ...i, companyId: DEMO_COMPANY_ID })) as never);
+    await tx.query(`UPDATE company SET quote_terms = $2 WHERE id = $1 AND quote_terms = ''`, [DEMO_COMPANY_ID, DEMO_TERMS]);
   });
 }

@@ -6,6 +6,7 @@ export interface OutgoingMail {
   subject: string;
   text: string;
   html: string;
+  attachments?: Array<{ filename: string; content: Buffer; contentType: string }>;
 }
 
 /** Sends mail; `send` rejects when the SMTP server refuses or cannot be reached. */

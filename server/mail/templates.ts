@@ -54,3 +54,34 @@ export function passwordResetMail(input: { to: string; companyName: string; name
     html: layout(input.companyName, lines, { label: "Set a new password", url: input.url }, footer),
   };
 }
+
+export function quoteMail(input: { to: string; companyName: string; clientName: string; label: string; jobTitle: string; total: string; deposit: string; validUntil: string; url: string; message?: string; senderName: string }): OutgoingMail {
+  const lines = [
+    `Hello ${input.clientName},`,
+    ...(input.message ? [input.message] : []),
+    `${input.companyName} has sent you quote ${input.label} for ${input.jobTitle}: ${input.total} in total, with a deposit of ${input.deposit} due on acceptance.`,
+    "The quote is attached as a PDF, with the voltage-drop check of every load. You can read it, accept it or decline it online.",
+    `The quote is valid until ${input.validUntil}.`,
+  ];
+  const footer = `Sent by ${input.senderName} for ${input.companyName} through Runwright. Reply to this e-mail with any questions.`;
+  return {
+    to: input.to,
+    subject: `Quote ${input.label} from ${input.companyName}: ${input.jobTitle}`,
+    text: `${lines.join("\n\n")}\n\nOpen the quote:\n${input.url}\n\n${footer}\n`,
+    html: layout(input.companyName, lines, { label: "Open the quote", url: input.url }, footer),
+  };
+}
+
+export function quoteAnsweredMail(input: { to: string; companyName: string; label: string; jobTitle: string; clientName: string; answer: "accepted" | "declined"; byName: string | null; reason: string | null; url: string }): OutgoingMail {
+  const lines =
+    input.answer === "accepted"
+      ? [`${input.clientName} accepted quote ${input.label} (${input.jobTitle}).`, `Accepted by: ${input.byName ?? "the client"}.`, "The client can now pay the deposit from the quote page."]
+      : [`${input.clientName} declined quote ${input.label} (${input.jobTitle}).`, input.reason ? `Their reason: ${input.reason}` : "They gave no reason."];
+  const footer = "You get this e-mail because you sent this quote from Runwright.";
+  return {
+    to: input.to,
+    subject: `Quote ${input.label} ${input.answer} by ${input.clientName}`,
+    text: `${lines.join("\n\n")}\n\nOpen the quote in Runwright:\n${input.url}\n\n${footer}\n`,
+    html: layout(input.companyName, lines, { label: "Open the quote", url: input.url }, footer),
+  };
+}

@@ -2,7 +2,7 @@ import Papa from "papaparse";
 import { normalizeSize } from "../../shared/engine/conductors.js";
 import { convertLength } from "../../shared/engine/lengths.js";
 import { runSchema, type SystemInput } from "../../shared/engine/schema.js";
-import { AppError } from "../errors.js";
+import { decodeUtf8, lineNumbers, neutralise, refuse, unneutralise, type RowError } from "./csv.js";
 
 // The CSV of runs: one row per run, the network file's run fields as columns, lengths in the
 // system's units (m or ft). The header row names the columns; order does not matter on import.
@@ -27,19 +27,6 @@ type Column = (typeof RUN_COLUMNS)[number];
 const REQUIRED: Column[] = ["id", "from", "to", "length", "size"];
 const NUMERIC: Column[] = ["parallel", "fuseA", "fuseInterruptingA", "insulationC"];
 
-export interface RowError {
-  line: number;
-  column: string | null;
-  message: string;
-}
-
-// A cell a spreadsheet would run as a formula is written with a leading apostrophe (OWASP "CSV
-// injection"); import takes the apostrophe off again.
-const FORMULA_START = /^[=+\-@\t\r]/;
-// A text that itself starts with an apostrophe gets one more, so import gives back exactly what was exported.
-const neutralise = (v: string) => (FORMULA_START.test(v) || v.startsWith("'") ? `'${v}` : v);
-const unneutralise = (v: string) => (v.startsWith("'") && (FORMULA_START.test(v.slice(1)) || v.startsWith("''")) ? v.slice(1) : v);
-
 /** The runs of a document as CSV text (RFC 4180, CRLF line ends, header row). */
 export function runsToCsv(document: SystemInput): string {
   const rows = document.runs.map((run) =>
@@ -50,26 +37,6 @@ export function runsToCsv(document: SystemInput): string {
     }),
   );
   return Papa.unparse({ fields: [...RUN_COLUMNS], data: rows }, { newline: "\r\n" });
-}
-
-function decodeUtf8(bytes: Buffer): string {
-  try {
-    return new TextDecoder("utf-8", { fatal: true }).decode(bytes).replace(/^\uFEFF/, "");
-  } catch {
-    throw new AppError("invalid_input", "file: the CSV is not UTF-8 text; save it from your spreadsheet as \"CSV UTF-8\"", {
-      field: "file",
-      rows: [{ line: 1, column: null, message: "not UTF-8 text" }],
-    });
-  }
-}
-
-function refuse(errors: RowError[]): never {
-  const first = errors[0];
-  const where = `line ${first.line}${first.column ? `, column ${first.column}` : ""}`;
-  throw new AppError("invalid_input", `file: ${where}: ${first.message}${errors.length > 1 ? ` (and ${errors.length - 1} more)` : ""}; nothing was imported`, {
-    field: "file",
-    rows: errors.slice(0, 200),
-  });
 }
 
 /**
@@ -180,52 +147,3 @@ export async function runsFromCsv(bytes: Buffer, document: SystemInput): Promise
   return runs;
 }
 
-/**
- * The 1-based line on which each of the first `count` records starts, skipping blank lines as
- * papaparse's "greedy" mode does (lines of only spaces and delimiters). Quotes follow RFC 4180: a
- * quote opens a quoted field only at the start of a field, and "" inside one is a literal quote.
- * `text` has LF line ends only.
- */
-function lineNumbers(text: string, count: number, delimiter: string): number[] {
-  const out: number[] = [];
-  let line = 1;
-  let recordLine = 1;
-  let inQuotes = false;
-  let fieldStart = true;
-  let blank = true;
-  const endRecord = () => {
-    if (!blank) out.push(recordLine);
-    blank = true;
-    fieldStart = true;
-    recordLine = line;
-  };
-  for (let i = 0; i < text.length && out.length < count; i++) {
-    const ch = text[i];
-    if (inQuotes) {
-      if (ch === '"' && text[i + 1] === '"') i++;
-      else if (ch === '"') inQuotes = false;
-      else if (ch === "\n") line++;
-      continue;
-    }
-    if (ch === "\n") {
-      line++;
-      endRecord();
-      continue;
-    }
-    if (ch === '"' && fieldStart) {
-      inQuotes = true;
-      blank = false;
-      fieldStart = false;
-      continue;
-    }
-    if (text.startsWith(delimiter, i)) {
-      fieldStart = true;
-      i += delimiter.length - 1;
-      continue;
-    }
-    if (!/\s/.test(ch)) blank = false;
-    fieldStart = false;
-  }
-  if (out.length < count) endRecord();
-  return out;
-}

@@ -14,6 +14,7 @@ export const API_ERROR_CODES = [
   "unprocessable",
   "rate_limited",
   "internal",
+  "mail_failed",
   "service_unavailable",
 ] as const;
 

@@ -43,6 +43,36 @@ export class Company {
   @Column({ type: "numeric", precision: 5, scale: 2, name: "deposit_percent", default: 30, transformer: numericAsNumber })
   depositPercent!: number;
 
+  /** Added to cable lengths for offcuts and routing, %. */
+  @Column({ type: "numeric", precision: 6, scale: 3, name: "waste_percent", default: 10, transformer: numericAsNumber })
+  wastePercent!: number;
+
+  @Column({ type: "numeric", precision: 7, scale: 2, name: "labour_minutes_per_run", default: 20, transformer: numericAsNumber })
+  labourMinutesPerRun!: number;
+
+  @Column({ type: "numeric", precision: 7, scale: 2, name: "labour_minutes_per_metre", default: 1, transformer: numericAsNumber })
+  labourMinutesPerMetre!: number;
+
+  @Column({ type: "numeric", precision: 7, scale: 2, name: "labour_minutes_per_termination", default: 4, transformer: numericAsNumber })
+  labourMinutesPerTermination!: number;
+
+  @Column({ type: "integer", name: "quote_valid_days", default: 30 })
+  quoteValidDays!: number;
+
+  @Column({ type: "text", name: "quote_terms", default: "" })
+  quoteTerms!: string;
+
+  /** The last quote number given out; the next quote is this + 1. */
+  @Column({ type: "integer", name: "last_quote_number", default: 0 })
+  lastQuoteNumber!: number;
+
+  /** PNG or JPEG printed on quotes; never selected by lists. */
+  @Column({ type: "bytea", nullable: true, select: false })
+  logo!: Buffer | null;
+
+  @Column({ type: "varchar", length: 20, name: "logo_media_type", nullable: true })
+  logoMediaType!: string | null;
+
   @CreateDateColumn({ type: "timestamptz", name: "created_at" })
   createdAt!: Date;
 

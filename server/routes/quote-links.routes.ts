@@ -1,0 +1,57 @@
+import { Router, type Request } from "express";
+import { AcceptQuoteInput, DeclineQuoteInput, type PublicQuote } from "../../shared/schemas/estimates.js";
+import { publicRoute } from "../auth/context.js";
+import type { Quote } from "../db/entities/index.js";
+import { limitBy } from "../middleware/rate-limit.js";
+import { answerQuoteLink, openQuoteLink, quoteLabel, quoteLinkPdf } from "../services/quote.service.js";
+import type { AccountDeps } from "./deps.js";
+import { sendPdf } from "./estimates.routes.js";
+
+function presentPublicQuote(q: Quote): PublicQuote {
+  const state = q.status === "accepted" || q.status === "declined" || q.status === "deposit paid" ? q.status : "open";
+  return {
+    state,
+    status: q.status,
+    label: quoteLabel(q),
+    snapshot: q.snapshot,
+    acceptedName: q.acceptedName,
+    acceptedAt: q.acceptedAt?.toISOString() ?? null,
+    declinedAt: q.declinedAt?.toISOString() ?? null,
+  };
+}
+
+const tokenOf = (req: Request) => String(req.params.token);
+
+/** The client's side of a quote, reached with the e-mailed link's token (no account). */
+export function quoteLinkRoutes(deps: AccountDeps): Router {
+  const { db, publicUrl, rateLimit, logger } = deps;
+  const router = Router();
+
+  router.get("/:token", publicRoute, async (req, res) => {
+    res.setHeader("Cache-Control", "no-store");
+    res.json(presentPublicQuote(await openQuoteLink(db, tokenOf(req))));
+  });
+
+  router.get("/:token/pdf", publicRoute, async (req, res) => {
+    const { quote, pdf } = await quoteLinkPdf(db, tokenOf(req), publicUrl);
+    sendPdf(res, pdf, `${quoteLabel(quote).replace(/\s+/g, "-")}.pdf`, req.query.download !== undefined);
+  });
+
+  router.post("/:token/accept", publicRoute, ...limitBy("quote answer", rateLimit, ["ip"]), async (req, res) => {
+    const input = AcceptQuoteInput.parse(req.body);
+    const quote = await answerQuoteLink(deps, tokenOf(req), { kind: "accept", input, ip: req.ip ?? null, userAgent: req.get("user-agent") ?? null }, (error) =>
+      logger.warn({ err: error }, "could not e-mail the estimator about an accepted quote"),
+    );
+    res.json(presentPublicQuote(quote));
+  });
+
+  router.post("/:token/decline", publicRoute, ...limitBy("quote answer", rateLimit, ["ip"]), async (req, res) => {
+    const input = DeclineQuoteInput.parse(req.body ?? {});
+    const quote = await answerQuoteLink(deps, tokenOf(req), { kind: "decline", reason: input.reason ? input.reason : null }, (error) =>
+      logger.warn({ err: error }, "could not e-mail the estimator about a declined quote"),
+    );
+    res.json(presentPublicQuote(quote));
+  });
+
+  return router;
+}
