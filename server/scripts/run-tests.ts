@@ -6,7 +6,7 @@ import { chmodSync, existsSync, mkdtempSync, readFileSync, rmSync } from "node:f
 import os from "node:os";
 import path from "node:path";
 import { findFreePort } from "./port-check.js";
-import { ensureNgspice } from "./ngspice.js";
+import { ensureTestTools } from "./test-tools.js";
 import { LocalPostgres } from "./postgres.js";
 import { projectRoot } from "./project-root.js";
 import { exitWithStartupError } from "./startup-error.js";
@@ -14,7 +14,7 @@ import { exitWithStartupError } from "./startup-error.js";
 const TEST_DATABASE = "runwright_test";
 
 async function main(): Promise<number> {
-  ensureNgspice();
+  ensureTestTools();
   const tmp = mkdtempSync(path.join(os.tmpdir(), "runwright-test-"));
   // The postgres user (when we are root) must be able to walk into it.
   chmodSync(tmp, 0o755);
