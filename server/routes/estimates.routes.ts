@@ -44,7 +44,7 @@ export function estimatingSettingsRoutes({ db }: AccountDeps): Router {
     res.setHeader("Cache-Control", "private, no-cache");
     res.send(logo.content);
   });
-  router.put("/logo", can("company:write"), singleFile("file", EstimateLimits.logoMaxBytes, "logo"), async (req, res) => {
+  router.post("/logo", can("company:write"), singleFile("file", EstimateLimits.logoMaxBytes, "logo"), async (req, res) => {
     if (!req.file) throw new AppError("invalid_input", 'file: send the logo in the multipart field "file"', { field: "file" });
     const { company, hasLogo } = await saveLogo(db, requireAuth(req).companyId, req.file.buffer);
     res.json(presentEstimatingSettings(company, hasLogo));

@@ -5,6 +5,7 @@ import { addMember, signUpCompany, uniqueEmail, type SignedInOwner } from "./acc
 import type { TestApp } from "./app.js";
 import { waitForMail } from "./mail.js";
 import { createJobWork, type JobWork } from "./jobs.js";
+import { createQuoteWork, type QuoteWork } from "./quotes.js";
 
 /** A company with one person of each role, a spare member to act on, and a pending invitation. */
 export interface CompanyFixture {
@@ -18,6 +19,10 @@ export interface CompanyFixture {
   anonymous: ApiClient;
   /** The company's clients, job, system, limit profile and attachment. */
   work: JobWork;
+  /** Made on first call: a priced estimate for the job and a quote sent to a client (with its e-mailed link). */
+  quotes: () => Promise<QuoteWork>;
+  /** Made on first call: the sent quote accepted through its client link. */
+  accepted: () => Promise<QuoteWork>;
 }
 
 export async function companyFixture(db: DataSource, app: TestApp): Promise<CompanyFixture> {
@@ -32,7 +37,26 @@ export async function companyFixture(db: DataSource, app: TestApp): Promise<Comp
   expect(invited.status).toBe(201);
   await waitForMail(email);
   const work = await createJobWork(owner.api);
-  return { companyId: owner.companyId, owner, estimator, installer, spare, invitationId: invited.body.id, anonymous: new ApiClient(app.app), work };
+  let quotes: Promise<QuoteWork> | undefined;
+  let accepted: Promise<QuoteWork> | undefined;
+  const fixture: CompanyFixture = {
+    companyId: owner.companyId,
+    owner,
+    estimator,
+    installer,
+    spare,
+    invitationId: invited.body.id,
+    anonymous: new ApiClient(app.app),
+    work,
+    quotes: () => (quotes ??= createQuoteWork(owner.api, work.jobId, app.url)),
+    accepted: () =>
+      (accepted ??= fixture.quotes().then(async (q) => {
+        const answer = await new ApiClient(app.app).post(`/api/quote-links/${q.token}/accept`, { name: "Fixture Client", agree: true });
+        expect(answer.status, JSON.stringify(answer.body)).toBe(200);
+        return q;
+      })),
+  };
+  return fixture;
 }
 
 /**

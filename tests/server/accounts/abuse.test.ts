@@ -8,6 +8,7 @@ import { signUpCompany, TEST_PASSWORD, uniqueEmail } from "../../support/account
 import { startTestApp, useTestApp } from "../../support/app.js";
 import { openTestDb } from "../../support/test-db.js";
 import { createJobWork, exampleSystem } from "../../support/jobs.js";
+import { createQuoteWork } from "../../support/quotes.js";
 
 describe("rate limits: 10 per 15 minutes, per IP and per e-mail", () => {
   let db: DataSource;
@@ -220,6 +221,30 @@ describe("hostile input on every route that reads a body", () => {
     "POST /api/systems/:systemId/runs.csv": { version: 1, file: "id,from,to,length,size" },
     "POST /api/limit-profiles": { name: "L", branchPercent: 3, totalPercent: 5, criticalPercent: 3, nearFraction: 0.8, notes: "N" },
     "PATCH /api/limit-profiles/:profileId": { name: "L", branchPercent: 3, totalPercent: 5, criticalPercent: 3, nearFraction: 0.8, notes: "N" },
+    "POST /api/price-list": { sku: "H-1", description: "D", category: "cable", unit: "m", unitCostMinor: 100, sellPriceMinor: 150, cableSize: "16 mm2", cableMaterial: "copper", conductors: 1, ratingA: null },
+    "PATCH /api/price-list/:itemId": { sku: "H-2", description: "D", category: "fuse", unit: "each", unitCostMinor: 100, ratingA: 60 },
+    "POST /api/price-list/import.csv": { file: "sku,description,category,unit,unit_cost" },
+    "PATCH /api/company/estimating": { wastePercent: 10, labourMinutesPerRun: 20, labourMinutesPerMetre: 1, labourMinutesPerTermination: 4, quoteValidDays: 30, quoteTerms: "T" },
+    "POST /api/company/logo": { file: "x" },
+    "POST /api/jobs/:jobId/estimate/generate": {},
+    "PUT /api/jobs/:jobId/estimate": {
+      version: 1,
+      markupPercent: 10,
+      discountMinor: 0,
+      taxRatePercent: 5,
+      depositMode: "percent",
+      depositPercent: 30,
+      depositFixedMinor: 0,
+      wastePercent: 10,
+      manual: [{ category: "other", description: "M", quantity: 1, unit: "each", unitCostMinor: 100, markupPercent: null }],
+      overrides: { labour: { markupPercent: 5 } },
+      supplied: [],
+    },
+    "POST /api/jobs/:jobId/quotes": { validUntil: "2099-01-01", terms: "T" },
+    "POST /api/quotes/:quoteId/send": { to: "hostile-client@example.test", message: "M" },
+    "POST /api/quotes/:quoteId/link": {},
+    "POST /api/quote-links/:token/accept": { name: "N", agree: true },
+    "POST /api/quote-links/:token/decline": { reason: "R" },
   };
   const HOSTILE: unknown[] = [
     "a\u0000b",
@@ -243,7 +268,17 @@ describe("hostile input on every route that reads a body", () => {
     const { listRoutes } = await import("../../../server/routes/route-table.js");
     const owner = await signUpCompany(t.app);
     const work = await createJobWork(owner.api);
-    const ids: Record<string, string> = { userId: owner.userId, clientId: work.clientId, jobId: work.jobId, systemId: work.systemId, profileId: work.profileId };
+    const quotes = await createQuoteWork(owner.api, work.jobId, t.app.url);
+    const ids: Record<string, string> = {
+      userId: owner.userId,
+      clientId: work.clientId,
+      jobId: work.jobId,
+      systemId: work.systemId,
+      profileId: work.profileId,
+      itemId: quotes.priceItemId,
+      quoteId: quotes.quoteId,
+      token: quotes.token,
+    };
     const writes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && ["POST", "PATCH", "PUT"].includes(r.method) && r.path !== "/api/auth/sign-out");
     expect(writes.map((r) => `${r.method} ${r.path}`).filter((key) => !(key in VALID)), "routes without a VALID body").toEqual([]);
     let requests = 0;
@@ -263,5 +298,6 @@ describe("hostile input on every route that reads a body", () => {
     const expected = writes.reduce((n, r) => n + WHOLE_BODIES.length + Object.keys(VALID[`${r.method} ${r.path}`]).length * HOSTILE.length, 0);
     expect(requests).toBe(expected);
     expect(requests).toBeGreaterThan(400);
-  });
+    // About 1,000 requests, some rendering a quote PDF: a sweep, not a speed check.
+  }, 180_000);
 });

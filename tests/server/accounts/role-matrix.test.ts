@@ -38,6 +38,18 @@ async function currentSystem(f: CompanyFixture) {
   return (await f.owner.api.get(`/api/systems/${f.work.systemId}`)).body as { version: number; document: unknown };
 }
 
+const sku = () => `M-${Math.random().toString(36).slice(2, 10)}`;
+const matrixItem = () => ({ sku: sku(), description: "Matrix lug", category: "termination", unit: "each", unitCostMinor: 150 });
+async function freshPriceItem(f: CompanyFixture) {
+  return (await f.owner.api.post("/api/price-list", matrixItem())).body.id as string;
+}
+async function withLogo(f: CompanyFixture) {
+  expect((await f.owner.api.upload("/api/company/logo", { content: TINY_PNG, name: "logo.png", type: "image/png" })).status).toBe(200);
+  return {};
+}
+/** Client-link answers: the first caller's answer counts, later ones find it answered. */
+const firstAnswerCounts = { anonymous: 200, installer: 409, estimator: 409, owner: 409 };
+
 // Every /api route × who is asking → the status it must get, with a valid request.
 // Installers read only; Estimators do not administer the team or the company.
 // A route missing from this table fails the test.
@@ -105,6 +117,43 @@ const MATRIX: Record<string, Row> = {
   "PATCH /api/limit-profiles/:profileId": { request: (f) => ({ path: `/api/limit-profiles/${f.work.profileId}`, body: { notes: "Matrix" } }), expect: ownerOnly(200) },
   "DELETE /api/limit-profiles/:profileId": { request: (f) => ({ path: `/api/limit-profiles/${f.work.profileId}` }), expect: ownerOnly(204) },
   "GET /api/attachments/:attachmentId/file": { request: (f) => ({ path: `/api/attachments/${f.work.attachmentId}/file` }), expect: signedIn(200) },
+  "GET /api/price-list": { request: () => ({}), expect: signedIn(200) },
+  "POST /api/price-list": { request: () => ({ body: matrixItem() }), expect: writers(201) },
+  "GET /api/price-list/export.csv": { request: () => ({}), expect: signedIn(200) },
+  "POST /api/price-list/import.csv": {
+    request: () => ({ upload: { file: { content: `sku,description,category,unit,unit_cost\r\n${sku()},Matrix fuse holder,fuse,each,9.50\r\n`, name: "prices.csv", type: "text/csv" } } }),
+    expect: writers(200),
+  },
+  "PATCH /api/price-list/:itemId": { request: async (f) => ({ path: `/api/price-list/${await freshPriceItem(f)}`, body: { description: "Renamed" } }), expect: writers(200) },
+  "DELETE /api/price-list/:itemId": { request: async (f) => ({ path: `/api/price-list/${await freshPriceItem(f)}` }), expect: writers(204) },
+  "GET /api/company/estimating": { request: () => ({}), expect: signedIn(200) },
+  "PATCH /api/company/estimating": { request: () => ({ body: { wastePercent: 12 } }), expect: ownerOnly(200) },
+  "GET /api/company/logo": { request: withLogo, expect: signedIn(200) },
+  "POST /api/company/logo": { request: () => ({ upload: { file: { content: TINY_PNG, name: "logo.png", type: "image/png" } } }), expect: ownerOnly(200) },
+  "DELETE /api/company/logo": { request: () => ({}), expect: ownerOnly(204) },
+  "GET /api/jobs/:jobId/estimate": { request: async (f) => (await f.quotes(), { path: `/api/jobs/${f.work.jobId}/estimate` }), expect: signedIn(200) },
+  "POST /api/jobs/:jobId/estimate/generate": { request: (f) => ({ path: `/api/jobs/${f.work.jobId}/estimate/generate` }), expect: writers(200) },
+  "PUT /api/jobs/:jobId/estimate": {
+    request: async (f) => {
+      await f.quotes();
+      const { version } = (await f.owner.api.get(`/api/jobs/${f.work.jobId}/estimate`)).body as { version: number };
+      return { path: `/api/jobs/${f.work.jobId}/estimate`, body: { version, markupPercent: 15 } };
+    },
+    expect: writers(200),
+  },
+  "GET /api/jobs/:jobId/quotes": { request: (f) => ({ path: `/api/jobs/${f.work.jobId}/quotes` }), expect: signedIn(200) },
+  "POST /api/jobs/:jobId/quotes": { request: async (f) => (await f.quotes(), { path: `/api/jobs/${f.work.jobId}/quotes`, body: {} }), expect: writers(201) },
+  "GET /api/jobs/:jobId/cut-list.pdf": { request: async (f) => (await f.accepted(), { path: `/api/jobs/${f.work.jobId}/cut-list.pdf` }), expect: signedIn(200) },
+  "GET /api/quotes/:quoteId": { request: async (f) => ({ path: `/api/quotes/${(await f.quotes()).quoteId}` }), expect: signedIn(200) },
+  "GET /api/quotes/:quoteId/pdf": { request: async (f) => ({ path: `/api/quotes/${(await f.quotes()).quoteId}/pdf` }), expect: signedIn(200) },
+  "POST /api/quotes/:quoteId/send": { request: async (f) => ({ path: `/api/quotes/${(await f.quotes()).quoteId}/send`, body: {} }), expect: writers(200) },
+  "POST /api/quotes/:quoteId/link": { request: async (f) => ({ path: `/api/quotes/${(await f.quotes()).quoteId}/link` }), expect: writers(200) },
+  "DELETE /api/quotes/:quoteId/link": { request: async (f) => ({ path: `/api/quotes/${(await f.quotes()).quoteId}/link` }), expect: writers(204) },
+  "GET /api/quote-links/:token": { request: async (f) => ({ path: `/api/quote-links/${(await f.quotes()).token}` }), expect: all(200) },
+  "GET /api/quote-links/:token/pdf": { request: async (f) => ({ path: `/api/quote-links/${(await f.quotes()).token}/pdf` }), expect: all(200) },
+  "POST /api/quote-links/:token/accept": { request: async (f) => ({ path: `/api/quote-links/${(await f.quotes()).token}/accept`, body: { name: "Matrix Client", agree: true } }), expect: firstAnswerCounts },
+  "POST /api/quote-links/:token/decline": { request: async (f) => ({ path: `/api/quote-links/${(await f.quotes()).token}/decline`, body: {} }), expect: firstAnswerCounts },
+  "GET /api/dashboard": { request: () => ({}), expect: signedIn(200) },
   "DELETE /api/attachments/:attachmentId": {
     request: async (f) => {
       const photo = await f.owner.api.upload(`/api/jobs/${f.work.jobId}/attachments`, { content: TINY_PNG, name: "doomed.png", type: "image/png" });

@@ -3,6 +3,7 @@ import { listRoutes } from "../../../server/routes/route-table.js";
 import { companyFixture, companySnapshot, type CompanyFixture } from "../../support/fixtures.js";
 import { useTestApp } from "../../support/app.js";
 import { TINY_PNG } from "../../support/jobs.js";
+import type { QuoteWork } from "../../support/quotes.js";
 
 // For each route parameter, which of company A's resources to aim at. A new
 // route with a new parameter fails the sweep until it is added here.
@@ -14,7 +15,11 @@ const TARGETS: Record<string, (a: CompanyFixture) => string> = {
   systemId: (a) => a.work.systemId,
   profileId: (a) => a.work.profileId,
   attachmentId: (a) => a.work.attachmentId,
+  itemId: () => quoteWorkOfA.priceItemId,
+  quoteId: () => quoteWorkOfA.quoteId,
 };
+// A's price list and sent quote, made before the sweep.
+let quoteWorkOfA: QuoteWork;
 
 // A valid body for routes that read one, so the answer is about the id and not the input.
 const BODIES: Record<string, unknown> = {
@@ -26,6 +31,10 @@ const BODIES: Record<string, unknown> = {
   "POST /api/systems/:systemId/autosize": {},
   "POST /api/jobs/:jobId/systems": { name: "Planted" },
   "PATCH /api/limit-profiles/:profileId": { notes: "Taken over" },
+  "PATCH /api/price-list/:itemId": { description: "Taken over" },
+  "PUT /api/jobs/:jobId/estimate": { version: 1, markupPercent: 99 },
+  "POST /api/jobs/:jobId/quotes": {},
+  "POST /api/quotes/:quoteId/send": {},
 };
 
 describe("tenancy sweep: a member of company B never reaches company A's resources", () => {
@@ -36,6 +45,7 @@ describe("tenancy sweep: a member of company B never reaches company A's resourc
   beforeAll(async () => {
     a = await companyFixture(t.db, t.app);
     b = await companyFixture(t.db, t.app);
+    quoteWorkOfA = await a.quotes();
   });
 
   it("finds the routes that take a resource id from Express's router", () => {
@@ -46,7 +56,8 @@ describe("tenancy sweep: a member of company B never reaches company A's resourc
   });
 
   it("answers 404 to B's Owner for every one of them, and changes nothing of A's", async () => {
-    const routes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && r.params.length > 0);
+    // Client-link routes are public by design: the token is the authority, not the session.
+    const routes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && r.params.length > 0 && r.access !== "public");
     const before = await companySnapshot(t.db, a.companyId);
     for (const route of routes) {
       let path = route.path;
