@@ -3,7 +3,8 @@ import type { DataSource } from "typeorm";
 import { createDataSource } from "../../server/db/data-source.js";
 import { verifyPassword } from "../../server/auth/passwords.js";
 import { DEMO_CLIENTS, DEMO_COMPANY_ID, DEMO_COMPANY_NAME, DEMO_JOBS, DEMO_PASSWORD, DEMO_USERS, seedDemo } from "../../server/db/seed.js";
-import { Client, Company, Job, LimitProfile, Membership, System, User } from "../../server/db/entities/index.js";
+import { Client, Company, Job, LimitProfile, Membership, PriceItem, System, User } from "../../server/db/entities/index.js";
+import { buildBillOfMaterials } from "../../shared/estimate/index.js";
 import { solveSystem } from "../../shared/engine/system.js";
 import { createEmptyDatabase } from "../support/test-db.js";
 
@@ -85,8 +86,30 @@ describe("migrations on an empty database", () => {
     expect(await db.getRepository(LimitProfile).countBy({ companyId: DEMO_COMPANY_ID })).toBe(3);
   });
 
+  it("seeds a price list that prices every demo layout: no missing price on any demo job", async () => {
+    const items = await db.getRepository(PriceItem).findBy({ companyId: DEMO_COMPANY_ID });
+    expect(items.length).toBeGreaterThan(20);
+    const systems = await db.getRepository(System).findBy({ companyId: DEMO_COMPANY_ID });
+    for (const system of systems) {
+      const bom = buildBillOfMaterials([{ id: system.id, name: system.name, document: system.document }], items, {
+        wastePercent: 10,
+        labourMinutesPerRun: 20,
+        labourMinutesPerMetre: 1,
+        labourMinutesPerTermination: 4,
+        labourRateMinor: 9500,
+      });
+      expect(bom.findings.filter((f) => f.code === "MISSING_PRICE"), system.name).toEqual([]);
+      expect(bom.lines.some((l) => l.category === "cable"), system.name).toBe(true);
+    }
+    const company = await db.getRepository(Company).findOneByOrFail({ id: DEMO_COMPANY_ID });
+    expect(company.quoteTerms).toContain("deposit");
+  });
+
   it("gives companies that existed before the jobs migration the default limit profiles", async () => {
-    await db.undoLastMigration({ transaction: "all" });
+    // Undo back to before the jobs migration (later migrations come off first).
+    const jobsIndex = db.migrations.findIndex((m) => m.name?.startsWith("CreateJobs"));
+    expect(jobsIndex).toBeGreaterThan(0);
+    for (let i = db.migrations.length - 1; i >= jobsIndex; i--) await db.undoLastMigration({ transaction: "all" });
     expect(await tableNames(db)).not.toContain("limit_profile");
     await db.runMigrations({ transaction: "all" });
     const names = (await db.getRepository(LimitProfile).findBy({ companyId: DEMO_COMPANY_ID })).map((p) => p.name).sort();
