@@ -7,7 +7,9 @@ import { SYSTEM_FORMAT, systemSchema, type SystemInput } from "../../shared/engi
 import { CAUTIONS } from "../../shared/engine/cautions.js";
 import { formatPath, solveSystem, type SolveResult } from "../../shared/engine/system.js";
 import type { CreateSystemInput, SaveSystemInput, SystemSummary } from "../../shared/schemas/jobs.js";
-import { Job, LimitProfile, System, User } from "../db/entities/index.js";
+import { Company, Job, LimitProfile, PriceItem, System, User } from "../db/entities/index.js";
+import { METRES_PER_FOOT } from "../../shared/engine/conductors.js";
+import { currencyDigits } from "../../shared/money.js";
 import { AppError } from "../errors.js";
 import { engineProfile } from "./limit-profile.service.js";
 import { companyScope } from "./tenancy.js";
@@ -198,12 +200,44 @@ const DEFAULT_COSTS = {
 
 export type AutosizeAnswer = AutosizeResult & { costSource?: "price-list" | "default-prices"; costNote?: string };
 
+/**
+ * The company's cable prices as the engine's costs (per metre of one conductor, in major units),
+ * or null when the price list has no cable. Of several items for one size and material the
+ * cheapest per conductor-metre counts, as in the bill of materials.
+ */
+export async function priceListCosts(manager: EntityManager, companyId: string): Promise<{ costs: unknown; currency: string } | null> {
+  const [items, company] = await Promise.all([
+    companyScope(manager, companyId).find(PriceItem, { where: { category: "cable" } }),
+    manager.findOneByOrFail(Company, { id: companyId }),
+  ]);
+  const best = new Map<string, { material: string; size: string; cost: number }>();
+  const scale = 10 ** currencyDigits(company.currency);
+  for (const item of items) {
+    if (!item.cableSize || !item.cableMaterial) continue;
+    const perConductorMetre = item.unitCostMinor / scale / (item.conductors ?? 1) / (item.unit === "ft" ? METRES_PER_FOOT : 1);
+    const key = `${item.cableMaterial}|${item.cableSize}`;
+    const current = best.get(key);
+    if (!current || perConductorMetre < current.cost) best.set(key, { material: item.cableMaterial, size: item.cableSize, cost: perConductorMetre });
+  }
+  if (best.size === 0) return null;
+  return { costs: { format: "runwright-costs/1", currency: company.currency, per: "m", items: [...best.values()] }, currency: company.currency };
+}
+
 export async function autosizeDocument(db: DataSource, companyId: string, limitProfileId: string | null, document: unknown): Promise<AutosizeAnswer> {
   const resolved = await resolveLengths(document);
   if (!resolved.ok) return { ok: false, errors: resolved.errors.map((e) => ({ code: "INVALID_FIELD" as const, path: e.path, message: e.message })) };
+  const withLimits = await withProfile(db.manager, companyId, limitProfileId, resolved.value);
+  // Auto-size proposes only sizes the company has priced; with no cable in the price list it
+  // falls back to indicative default prices and says so.
+  const priced = await priceListCosts(db.manager, companyId);
+  if (priced) {
+    const result = autosize(withLimits, priced.costs);
+    if (!result.ok) return result;
+    return { ...result, costSource: "price-list", costNote: `Cable cost from your price list (${priced.currency}); only sizes with a price are proposed.` };
+  }
   const units = (resolved.value as { units?: unknown })?.units === "imperial" ? "imperial" : "metric";
   const costs = DEFAULT_COSTS[units];
-  const result = autosize(await withProfile(db.manager, companyId, limitProfileId, resolved.value), costs);
+  const result = autosize(withLimits, costs);
   if (!result.ok) return result;
   const { currency, per } = costs as { currency: string; per: string };
   return {
