@@ -1,3 +1,4 @@
+import { loadFonts } from "./pdf/fonts.js";
 import type { Server } from "node:http";
 import { pino } from "pino";
 import type { DataSource } from "typeorm";
@@ -41,6 +42,8 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true, da
     const ran = await db.runMigrations({ transaction: "all" });
     if (ran.length > 0) logger.info({ migrations: ran.map((m) => m.name) }, "migrations ran");
     if (seed) await seedDemo(db);
+    // Parse the PDF fonts now, so the first quote PDF does not pay for it (about 1 s here).
+    loadFonts();
     const app = createApp({
       db,
       clientDir,

