@@ -74,3 +74,26 @@ export async function apiRequest<S extends z.ZodType>(path: string, schema: S, o
   if (!parsed.success) throw new ApiError(response.status, "unexpected_response", "The server's answer was not understood.");
   return parsed.data;
 }
+
+/**
+ * POSTs a multipart form to /api{path} (uploads: CSV files, the logo) and parses the answer with the
+ * shared schema. Not JSON, so not apiRequest; the CSRF header goes on it all the same. `statusMessages`
+ * words a refusal whose body is not ours (a proxy's 413 page, say).
+ */
+export async function apiUpload<S extends z.ZodType>(path: string, form: FormData, schema: S, statusMessages: Record<number, string> = {}): Promise<z.infer<S>> {
+  let response: Response;
+  try {
+    response = await fetch(`/api${path}`, { method: "POST", credentials: "include", headers: { Accept: "application/json", [CSRF_HEADER]: "1" }, body: form });
+  } catch {
+    throw new ApiError(0, "network_error", "The server could not be reached. Check the connection and try again.");
+  }
+  const payload: unknown = await response.json().catch(() => undefined);
+  if (!response.ok) {
+    const parsed = ApiErrorBody.safeParse(payload);
+    if (parsed.success) throw new ApiError(response.status, parsed.data.error.code, parsed.data.error.message, parsed.data.error.details);
+    throw new ApiError(response.status, "unexpected_response", statusMessages[response.status] ?? `The server answered ${response.status}.`);
+  }
+  const parsed = schema.safeParse(payload);
+  if (!parsed.success) throw new ApiError(response.status, "unexpected_response", "The server's answer was not understood.");
+  return parsed.data;
+}

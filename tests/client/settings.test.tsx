@@ -26,9 +26,12 @@ const settings = {
 const input = (label: string) => screen.getByLabelText(label) as HTMLInputElement;
 const type = (label: string, value: string) => fireEvent.change(input(label), { target: { value } });
 
+// The Settings page also shows the estimating section (its own tests: estimating-settings.test.tsx).
+const estimating = { wastePercent: 10, labourMinutesPerRun: 15, labourMinutesPerMetre: 0.5, labourMinutesPerTermination: 3, quoteValidDays: 30, quoteTerms: "", hasLogo: false };
+
 describe("the Settings page", () => {
   it("shows the Owner the company's settings, the labour rate in dollars", async () => {
-    stubApi({ "GET /api/auth/session": sessionAs("owner"), "GET /api/health": healthUp, "GET /api/company": { body: settings } });
+    stubApi({ "GET /api/auth/session": sessionAs("owner"), "GET /api/health": healthUp, "GET /api/company": { body: settings }, "GET /api/company/estimating": { body: estimating } });
     renderAt("/settings");
     expect(await screen.findByRole("heading", { level: 1, name: "Settings" })).toBeTruthy();
     expect(await screen.findByRole("heading", { level: 2, name: "Company" })).toBeTruthy();
@@ -43,7 +46,7 @@ describe("the Settings page", () => {
   });
 
   it("refuses a figure that is not a number, beside its field, without saving", async () => {
-    const api = stubApi({ "GET /api/auth/session": sessionAs("owner"), "GET /api/health": healthUp, "GET /api/company": { body: settings } });
+    const api = stubApi({ "GET /api/auth/session": sessionAs("owner"), "GET /api/health": healthUp, "GET /api/company": { body: settings }, "GET /api/company/estimating": { body: estimating } });
     renderAt("/settings");
     await screen.findByDisplayValue("85.00");
     type("Tax rate (%)", "eight");
@@ -60,6 +63,7 @@ describe("the Settings page", () => {
       "GET /api/auth/session": sessionAs("owner"),
       "GET /api/health": healthUp,
       "GET /api/company": { body: settings },
+      "GET /api/company/estimating": { body: estimating },
       "PATCH /api/company": (call) => ({ body: { ...settings, ...(call.body as object), updatedAt: "2026-12-02T08:00:00.000Z" } }),
     });
     renderAt("/settings");
@@ -88,7 +92,7 @@ describe("the Settings page", () => {
   });
 
   it("shows the settings read-only to anyone but the Owner", async () => {
-    const api = stubApi({ "GET /api/auth/session": sessionAs("installer"), "GET /api/health": healthUp, "GET /api/company": { body: settings } });
+    const api = stubApi({ "GET /api/auth/session": sessionAs("installer"), "GET /api/health": healthUp, "GET /api/company": { body: settings }, "GET /api/company/estimating": { body: estimating } });
     renderAt("/settings");
     expect(await screen.findByDisplayValue("85.00")).toBeTruthy();
     for (const label of ["Company name", "Licence number", "Contact e-mail", "Phone", "Address", "Currency", "Tax rate (%)", "Default markup (%)", "Labour rate per hour", "Deposit (%)"]) {

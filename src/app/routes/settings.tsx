@@ -6,6 +6,7 @@ import { paths } from "../../config/paths";
 import { sessionQueryOptions } from "../../features/auth/api/get-session";
 import { useSignedInSession } from "../../features/auth/hooks/session-context";
 import { CompanySettingsPanel } from "../../features/company/components/company-settings-panel";
+import { EstimatingSettingsSection } from "../../features/company/components/estimating-settings-form";
 
 export default function SettingsScreen() {
   const session = useSignedInSession();
@@ -18,6 +19,7 @@ export default function SettingsScreen() {
         // The side rail shows the company's name from the session.
         onSaved={() => void queryClient.invalidateQueries({ queryKey: sessionQueryOptions().queryKey })}
       />
+      <EstimatingSettingsSection canEdit={roleCan(session.role, "company:write")} />
       <section aria-labelledby="limits-heading" className="mt-6 max-w-3xl rounded-lg border border-ink-100 bg-white p-4 sm:p-6">
         <h2 id="limits-heading" className="text-base font-semibold text-ink-900">
           Voltage-drop limits

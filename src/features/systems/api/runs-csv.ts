@@ -1,9 +1,7 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
-import { CSRF_HEADER } from "../../../../shared/http";
-import { ApiErrorBody } from "../../../../shared/schemas/error";
 import { SystemRecordSchema } from "../../../../shared/schemas/jobs";
-import { ApiError } from "../../../lib/api-client";
+import { ApiError, apiUpload } from "../../../lib/api-client";
 import { systemQueryOptions } from "./get-system";
 
 /** The saved runs as CSV (a plain download link: the browser sends the session cookie). */
@@ -30,21 +28,7 @@ export async function importRunsCsv({ systemId, file, version }: { systemId: str
   const form = new FormData();
   form.append("file", file);
   form.append("version", String(version));
-  let response: Response;
-  try {
-    response = await fetch(runsCsvHref(systemId), { method: "POST", credentials: "include", headers: { Accept: "application/json", [CSRF_HEADER]: "1" }, body: form });
-  } catch {
-    throw new ApiError(0, "network_error", "The server could not be reached. Check the connection and try again.");
-  }
-  const payload: unknown = await response.json().catch(() => undefined);
-  if (!response.ok) {
-    const parsed = ApiErrorBody.safeParse(payload);
-    if (parsed.success) throw new ApiError(response.status, parsed.data.error.code, parsed.data.error.message, parsed.data.error.details);
-    throw new ApiError(response.status, "unexpected_response", `The server answered ${response.status}.`);
-  }
-  const record = SystemRecordSchema.safeParse(payload);
-  if (!record.success) throw new ApiError(response.status, "unexpected_response", "The server's answer was not understood.");
-  return record.data;
+  return apiUpload(runsCsvHref(systemId).replace(/^\/api/, ""), form, SystemRecordSchema);
 }
 
 export function useImportRunsCsv() {
