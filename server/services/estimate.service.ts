@@ -35,7 +35,7 @@ export async function presentEstimate(manager: EntityManager, companyId: string,
     else if (s.lastSolve.over > 0) layoutFindings.push({ code: "LOAD_OVER_LIMIT", severity: "warning", message: `${s.name}: ${s.lastSolve.over} load${s.lastSolve.over === 1 ? " is" : "s are"} over the drop limit; auto-size or fix the runs before quoting.` });
   }
   if (systems.some((s) => s.updatedAt > (estimate.generatedAt ?? new Date(0)))) {
-    layoutFindings.push({ code: "SYSTEM_NOT_SOLVED", severity: "warning", message: "A system was changed after this estimate was built: rebuild from the layout to bring the quantities up to date." });
+    layoutFindings.push({ code: "LAYOUT_CHANGED", severity: "warning", message: "A system was changed after this estimate was built: rebuild from the layout to bring the quantities up to date." });
   }
   const loads = systems.flatMap((s) => {
     const doc = s.document as { loads?: Array<{ id?: unknown; name?: unknown }> };

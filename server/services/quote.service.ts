@@ -109,6 +109,8 @@ export async function createQuote(db: DataSource, companyId: string, userId: str
     const missing = view.findings.filter((f) => f.code === "MISSING_PRICE");
     if (missing.length) throw new AppError("unprocessable", `The estimate has ${missing.length} item${missing.length === 1 ? "" : "s"} without a price: add them to the price list and rebuild`, { findings: missing });
     if (view.lines.length === 0) throw new AppError("unprocessable", "The estimate has no lines to quote");
+    const tooLarge = view.findings.find((f) => f.code === "AMOUNT_TOO_LARGE");
+    if (tooLarge) throw new AppError("unprocessable", tooLarge.message);
     const company = await tx.getRepository(Company).createQueryBuilder("c").addSelect("c.logo").where("c.id = :id", { id: companyId }).setLock("pessimistic_write").getOneOrFail();
     const client = await scope.mustFind(Client, { id: job.clientId }, "Client");
     const latest = await tx.findOne(Quote, { where: { companyId, jobId }, order: { createdAt: "DESC", revision: "DESC" } });
@@ -205,6 +207,9 @@ export async function sendQuote(deps: QuoteDeps, companyId: string, user: { user
     const quote = await companyScope(tx, companyId).mustFind(Quote, { id }, "Quote", true);
     if (quote.status !== "draft") return quote;
     if (quote.supersededAt) throw new AppError("conflict", "A later revision of this quote was sent; send that one");
+    // A draft made before the client accepted an earlier revision must not supersede the accepted one.
+    const answered: unknown[] = await tx.query(`SELECT 1 FROM quote WHERE company_id = $1 AND number = $2 AND revision <> $3 AND status IN ('accepted', 'deposit paid') LIMIT 1`, [companyId, quote.number, quote.revision]);
+    if (answered.length) throw new AppError("conflict", `The client accepted an earlier revision of ${quote.number}; this draft cannot replace it`);
     const to = input.to ?? quote.snapshot.client.email;
     if (!to) throw new AppError("invalid_input", "to: the client has no e-mail address; give one", { fields: { to: "the client has no e-mail address" } });
     const link = newLinkToken();
@@ -354,7 +359,11 @@ export async function answerQuoteLink(
 ): Promise<Quote> {
   const quote = await deps.db.transaction(async (tx) => {
     const q = await quoteForToken(tx, token, true);
-    if (OPEN.includes(q.status) && q.validUntil < today()) throw new AppError("gone", "This quote has expired; ask the contractor for a new one", { reason: "expired" });
+    if (OPEN.includes(q.status) && q.validUntil < today()) {
+      // The same details as any closed link (ClosedLinkDetails), so the page can say whom to ask.
+      const company = await tx.findOneBy(Company, { id: q.companyId });
+      throw new AppError("gone", "This quote has expired; ask the contractor for a new one", { reason: "expired", companyName: company?.name ?? null, contactEmail: company?.contactEmail ?? null, phone: company?.phone ?? null });
+    }
     if (!OPEN.includes(q.status)) throw new AppError("conflict", `This quote was already ${q.status === "declined" ? "declined" : "accepted"}`);
     const now = new Date();
     if (answer.kind === "accept") {

@@ -13,7 +13,7 @@
 //  - Labour: minutes per run + minutes per metre of one-way run length + minutes per termination,
 //    rounded up to the quarter hour, at the company's labour rate.
 // A needed item with no price is a MISSING_PRICE finding and no line: never a silent zero.
-import { METRES_PER_FOOT } from "../engine/conductors.js";
+import { METRES_PER_FOOT, normalizeSize } from "../engine/conductors.js";
 import { systemSchema, type System } from "../engine/schema.js";
 import type { EstimateFinding, GeneratedLine, PriceItem, PriceUnit, SuppliedLoad } from "../schemas/estimates.js";
 
@@ -59,7 +59,7 @@ export function buildBillOfMaterials(systems: readonly BomSystem[], items: reado
   const waste = 1 + settings.wastePercent / 100;
 
   // conductor metres per material|size, and the runs behind them
-  const cable = new Map<string, { material: "copper" | "aluminum"; size: string; metres: number; runs: Set<string> }>();
+  const cable = new Map<string, { material: "copper" | "aluminum"; size: string; metres: number; runs: Set<string>; imperial: boolean }>();
   const terminations = new Map<string, number>(); // size → count
   const fuses = new Map<number, number>(); // rating → count
   let fusedRuns = 0;
@@ -84,17 +84,23 @@ export function buildBillOfMaterials(systems: readonly BomSystem[], items: reado
       if (!Number.isFinite(lengthM)) continue;
       const add = (size: string, conductors: number) => {
         const key = `${run.material}|${size}`;
-        const entry = cable.get(key) ?? { material: run.material, size, metres: 0, runs: new Set<string>() };
+        const entry = cable.get(key) ?? { material: run.material, size, metres: 0, runs: new Set<string>(), imperial: true };
+        // A missing price is asked for per ft only when every run of the size is in an imperial system.
+        entry.imperial &&= doc.units === "imperial";
         entry.metres += lengthM * conductors;
         entry.runs.add(`${system.id}/${run.id}`);
         cable.set(key, entry);
         terminations.set(size, (terminations.get(size) ?? 0) + 2 * conductors);
       };
-      if (run.returnSize && run.returnSize !== run.size) {
-        add(run.size, run.parallel);
-        add(run.returnSize, run.parallel);
+      // The layout may spell a size as the engine reads it ("16" in a metric system, "10 awg");
+      // the price list holds the label ("16 mm2", "10 AWG").
+      const size = normalizeSize(run.size, doc.units) ?? run.size;
+      const returnSize = run.returnSize ? (normalizeSize(run.returnSize, doc.units) ?? run.returnSize) : size;
+      if (returnSize !== size) {
+        add(size, run.parallel);
+        add(returnSize, run.parallel);
       } else {
-        add(run.size, 2 * run.parallel);
+        add(size, 2 * run.parallel);
       }
       const ends = 4 * run.parallel;
       terminationCount += ends;
@@ -117,7 +123,7 @@ export function buildBillOfMaterials(systems: readonly BomSystem[], items: reado
     const item = cheapest(candidates, perConductorMetre);
     const label = `${entry.size.replace("mm2", "mm²")} ${entry.material} cable`;
     if (!item) {
-      missing({ category: "cable", unit: "m", cableSize: entry.size, cableMaterial: entry.material, ratingA: null, description: label });
+      missing({ category: "cable", unit: entry.imperial ? "ft" : "m", cableSize: entry.size, cableMaterial: entry.material, ratingA: null, description: label });
       continue;
     }
     const per = item.conductors ?? 1;

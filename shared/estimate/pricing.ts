@@ -7,7 +7,7 @@
 //  deposit    = total × deposit %, or a fixed amount (at most the total)
 // Markup: the line's override, else the manual line's own, else the estimate's; labour made from
 // the layout is charged at the labour rate (markup 0) unless overridden.
-import { lineAmount, percentOf, withMarkup } from "../money.js";
+import { MAX_MONEY_MINOR, lineAmount, percentOf, withMarkup } from "../money.js";
 import type { EstimateFinding, EstimateSettings, EstimateTotals, GeneratedLine, LineChange, LineOverride, ManualLine, PricedLine } from "../schemas/estimates.js";
 
 export interface PricedEstimate {
@@ -79,6 +79,10 @@ export function priceEstimate(input: {
   const taxableMinor = subtotalMinor - discountMinor;
   const taxMinor = percentOf(taxableMinor, settings.taxRatePercent);
   const totalMinor = taxableMinor + taxMinor;
+  // Amounts beyond this are typing mistakes, and past 2^53 cents a Number would no longer be exact.
+  if (totalMinor > MAX_MONEY_MINOR) {
+    findings.push({ code: "AMOUNT_TOO_LARGE", severity: "error", message: "The total is larger than any quote can carry; check the quantities and prices." });
+  }
   const depositMinor = settings.depositMode === "fixed" ? Math.min(settings.depositFixedMinor, totalMinor) : percentOf(totalMinor, settings.depositPercent);
   return {
     lines,

@@ -242,7 +242,7 @@ export const SuppliedLoadSchema = z.strictObject({
 export type SuppliedLoad = z.infer<typeof SuppliedLoadSchema>;
 
 export const EstimateFindingSchema = z.object({
-  code: z.enum(["MISSING_PRICE", "NO_LABOUR_RATE", "SYSTEM_NOT_SOLVED", "LOAD_OVER_LIMIT", "DISCOUNT_CAPPED", "UNKNOWN_SUPPLIED_LOAD", "NO_SYSTEMS"]),
+  code: z.enum(["MISSING_PRICE", "NO_LABOUR_RATE", "SYSTEM_NOT_SOLVED", "LAYOUT_CHANGED", "LOAD_OVER_LIMIT", "DISCOUNT_CAPPED", "AMOUNT_TOO_LARGE", "UNKNOWN_SUPPLIED_LOAD", "NO_SYSTEMS"]),
   severity: z.enum(["error", "warning"]),
   message: z.string(),
   /** For MISSING_PRICE: what to add to the price list (the client pre-fills the form from it). */
