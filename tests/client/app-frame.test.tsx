@@ -11,7 +11,11 @@ afterEach(() => {
 
 describe("the app frame", () => {
   it("shows the database up when the health check says so", async () => {
-    const api = stubApi({ "GET /api/auth/session": sessionAs("owner"), "GET /api/health": healthUp });
+    const api = stubApi({
+      "GET /api/auth/session": sessionAs("owner"),
+      "GET /api/health": healthUp,
+      "GET /api/dashboard": { body: { currency: "USD", month: "2026-12", byStatus: [], awaiting: [], activity: [], overLimitSystems: [] } },
+    });
     renderAt("/");
     expect(await screen.findByRole("status", { name: "Database up" })).toBeTruthy();
     expect(screen.getByText("v0.1.0")).toBeTruthy();

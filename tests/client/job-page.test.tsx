@@ -107,14 +107,19 @@ const detail = (extra: Record<string, unknown> = {}) => ({
   ...extra,
 });
 
-const base = (role: "owner" | "estimator" | "installer" = "estimator") => ({ "GET /api/auth/session": sessionAs(role), "GET /api/health": healthUp });
 const JOB = `GET /api/jobs/${JOB_ID}`;
+const QUOTES = `GET /api/jobs/${JOB_ID}/quotes`;
+const base = (role: "owner" | "estimator" | "installer" = "estimator") => ({
+  "GET /api/auth/session": sessionAs(role),
+  "GET /api/health": healthUp,
+  [QUOTES]: { body: { items: [] } },
+});
 
 const systemsList = () => screen.getByRole("list", { name: "Systems" });
 const attachmentsList = () => screen.getByRole("list", { name: "Attachments" });
 
 describe("the Job page", () => {
-  it("shows the job, its systems with their last solve, its photos and plans, and the quotes placeholder", async () => {
+  it("shows the job, its systems with their last solve, its photos and plans, and no quotes yet", async () => {
     const api = stubApi({ ...base(), [JOB]: { body: detail() } });
     renderAt(`/jobs/${JOB_ID}`);
     expect(await screen.findByRole("heading", { level: 1, name: "Cabin battery bank" })).toBeTruthy();
@@ -153,7 +158,10 @@ describe("the Job page", () => {
     expect(files[1].textContent).toContain("site-plan.pdf");
     expect(files[1].textContent).toContain("180 KB");
 
-    expect(screen.getByRole("region", { name: "Quotes" }).textContent).toContain("will appear here once an estimate is built");
+    const quotes = screen.getByRole("region", { name: "Quotes" });
+    await waitFor(() => expect(quotes.textContent).toContain("No quotes yet"));
+    expect(within(quotes).getByRole("link", { name: "Estimate" }).getAttribute("href")).toBe(`/jobs/${JOB_ID}/estimate`);
+    expect(within(quotes).queryByRole("link", { name: "Cut list PDF" })).toBeNull();
     expect(api.unexpected).toEqual([]);
   });
 
@@ -337,6 +345,52 @@ describe("the Job page", () => {
     await waitFor(() => expect(router.state.location.pathname).toBe("/jobs"));
     expect(await screen.findByRole("heading", { name: "No jobs yet" })).toBeTruthy();
     expect(api.callsTo(`DELETE /api/jobs/${JOB_ID}`)).toHaveLength(1);
+  });
+
+  it("lists the job's quotes newest first with their status and total, and the cut list once one is accepted", async () => {
+    const quote = (id: string, revision: number, status: string, extra: Record<string, unknown> = {}) => ({
+      id,
+      jobId: JOB_ID,
+      jobTitle: "Cabin battery bank",
+      clientName: "Ridge Cabins Ltd",
+      number: "Q-2026-0042",
+      revision,
+      label: `Q-2026-0042 R${revision}`,
+      status,
+      superseded: false,
+      currency: "USD",
+      totalMinor: 482_350,
+      depositMinor: 144_705,
+      validUntil: "2026-12-31",
+      sentAt: null,
+      sentTo: null,
+      sentBy: null,
+      sendError: null,
+      viewedAt: null,
+      acceptedAt: null,
+      acceptedName: null,
+      declinedAt: null,
+      declineReason: null,
+      linkActive: false,
+      createdAt: "2026-11-20T09:00:00.000Z",
+      ...extra,
+    });
+    const r2 = quote("7a1b2c3d-4e5f-4a6b-8c7d-000000000002", 2, "accepted", { sentAt: "2026-11-22T09:00:00.000Z", sentTo: "office@ridge.example", acceptedAt: "2026-11-23T09:00:00.000Z", linkActive: true });
+    const r1 = quote("7a1b2c3d-4e5f-4a6b-8c7d-000000000001", 1, "draft", { superseded: true, totalMinor: 455_000, sendError: "Mailbox unavailable" });
+    stubApi({ ...base(), [JOB]: { body: detail() }, [QUOTES]: { body: { items: [r2, r1] } } });
+    renderAt(`/jobs/${JOB_ID}`);
+    const quotes = await screen.findByRole("region", { name: "Quotes" });
+    const rows = await within(quotes).findAllByRole("row");
+    expect(rows).toHaveLength(3);
+    expect(within(rows[1]).getByRole("link", { name: "Q-2026-0042 R2" }).getAttribute("href")).toBe(`/jobs/${JOB_ID}/quotes/${r2.id}`);
+    expect(rows[1].textContent).toContain("Accepted");
+    expect(rows[1].textContent).toContain("$4,823.50");
+    expect(rows[1].textContent).toContain("office@ridge.example");
+    expect(rows[2].textContent).toContain("Draft");
+    expect(rows[2].textContent).toContain("Superseded");
+    expect(rows[2].textContent).toContain("Not sent: the e-mail failed");
+    expect(within(quotes).getByRole("link", { name: "Cut list PDF" }).getAttribute("href")).toBe(`/api/jobs/${JOB_ID}/cut-list.pdf`);
+    expect(within(quotes).getByRole("link", { name: "Estimate" }).getAttribute("href")).toBe(`/jobs/${JOB_ID}/estimate`);
   });
 
   it("answers an unknown job with Job not found and a way back", async () => {

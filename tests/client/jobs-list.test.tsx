@@ -220,6 +220,8 @@ describe("the New job form", () => {
       [jobsUrl("page=1&pageSize=25&sort=-updatedAt")]: page([cabin]),
       [clientsUrl]: page([client(ridge)]),
       "POST /api/jobs": { status: 201, body: created },
+      // The job page lists the job's quotes.
+      [`GET /api/jobs/${created.id}/quotes`]: { body: { items: [] } },
     });
     const router = renderAt("/jobs");
     fireEvent.click(await screen.findByRole("button", { name: "New job" }));

@@ -14,6 +14,7 @@ import { applyServerError } from "../../../lib/form-errors";
 import { cn } from "../../../utils/cn";
 import { formatDate } from "../../../utils/format-date";
 import { AttachmentsSection } from "../../attachments/components/attachments-section";
+import { JobQuotesSection } from "../../quotes/components/job-quotes-section";
 import { useDeleteJob } from "../api/delete-job";
 import { useJob } from "../api/get-job";
 import { useUpdateJob } from "../api/update-job";
@@ -206,15 +207,7 @@ function JobView({ job, canWrite }: { job: JobDetail; canWrite: boolean }) {
       <SystemsSection jobId={job.id} systems={job.systems} canWrite={canWrite} />
       <AttachmentsSection jobId={job.id} attachments={job.attachments} canWrite={canWrite} />
 
-      <section aria-labelledby="quotes-heading" className="space-y-2">
-        <h2 id="quotes-heading" className="text-base font-semibold text-ink-900">
-          Quotes
-        </h2>
-        <p className="rounded-lg border border-dashed border-ink-200 bg-white px-4 py-6 text-center text-sm text-ink-500">
-          Quotes for this job will appear here once an estimate is built from its systems. Each quote you send is kept as a revision (R1, R2, …) with
-          the client's answer.
-        </p>
-      </section>
+      <JobQuotesSection jobId={job.id} />
 
       {editing ? (
         <Dialog size="md" closeButton title="Edit job details" onClose={() => setEditing(false)}>
