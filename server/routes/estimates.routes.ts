@@ -4,7 +4,7 @@ import { can, requireAuth } from "../auth/context.js";
 import { AppError } from "../errors.js";
 import { singleFile } from "../middleware/upload.js";
 import { presentEstimatingSettings, presentQuoteDetail, presentQuoteSummary, senderNames } from "../presenters/estimates.presenter.js";
-import { generateEstimate, getEstimate, presentEstimate, saveEstimate } from "../services/estimate.service.js";
+import { findEstimate, generateEstimate, presentEstimate, saveEstimate } from "../services/estimate.service.js";
 import { deleteLogo, getEstimatingSettings, readLogo, saveLogo, updateEstimatingSettings } from "../services/estimating-settings.service.js";
 import { createQuote, getQuote, issueLink, listJobQuotes, quoteEvents, quoteLabel, quotePdf, revokeLink, sendQuote } from "../services/quote.service.js";
 import { acceptedQuoteForJob } from "../services/cut-list.service.js";
@@ -60,9 +60,14 @@ export function estimatingSettingsRoutes({ db }: AccountDeps): Router {
 export function jobEstimateRoutes({ db }: AccountDeps): Router {
   const router = Router();
 
+  // 204 until the estimate is first built: "not built yet" is a normal state of a job, not an error.
   router.get("/:jobId/estimate", can("jobs:read"), async (req, res) => {
     const { companyId } = requireAuth(req);
-    const estimate = await getEstimate(db.manager, companyId, idParam(req.params.jobId, "Job"));
+    const estimate = await findEstimate(db.manager, companyId, idParam(req.params.jobId, "Job"));
+    if (!estimate) {
+      res.status(204).end();
+      return;
+    }
     res.json(await presentEstimate(db.manager, companyId, estimate));
   });
 

@@ -63,9 +63,14 @@ export async function presentEstimate(manager: EntityManager, companyId: string,
   };
 }
 
-export async function getEstimate(manager: EntityManager, companyId: string, jobId: string): Promise<Estimate> {
+/** The job's estimate, or null when none was built yet (404 for an unknown job). */
+export async function findEstimate(manager: EntityManager, companyId: string, jobId: string): Promise<Estimate | null> {
   await companyScope(manager, companyId).mustFind(Job, { id: jobId }, "Job");
-  const estimate = await companyScope(manager, companyId).findOne(Estimate, { jobId });
+  return companyScope(manager, companyId).findOne(Estimate, { jobId });
+}
+
+export async function getEstimate(manager: EntityManager, companyId: string, jobId: string): Promise<Estimate> {
+  const estimate = await findEstimate(manager, companyId, jobId);
   if (!estimate) throw new AppError("not_found", "This job has no estimate yet: build it from the layout");
   return estimate;
 }

@@ -196,7 +196,7 @@ const rowOf = (text: string) => within(linesTable()).getByText(text).closest("tr
 describe("the Estimate screen", () => {
   it("offers to build the estimate from the layout when there is none, then shows it", async () => {
     const built = estimate({ manual: [] });
-    const api = stubApi({ ...base(), [ESTIMATE]: apiError(404, "not_found", "No estimate yet"), [GENERATE]: { body: built } });
+    const api = stubApi({ ...base(), [ESTIMATE]: { status: 204 }, [GENERATE]: { body: built } });
     renderAt(`/jobs/${JOB_ID}/estimate`);
     expect(await screen.findByRole("heading", { name: "No estimate yet" })).toBeTruthy();
     expect((await screen.findByRole("link", { name: /Cabin battery bank/ })).getAttribute("href")).toBe(`/jobs/${JOB_ID}`);

@@ -69,12 +69,12 @@ describe("estimates and quotes", () => {
   const t = useTestApp();
 
   describe("the estimate", () => {
-    it("is 404 before it is built, then lists the cabin's lines with the quantities worked out by hand", async () => {
+    it("is 204 (nothing built yet) before it is built, then lists the cabin's lines with the quantities worked out by hand", async () => {
       const owner = await pricedCompany(t.app, { defaultMarkupPercent: 20, taxRatePercent: 8.875 });
       const { jobId } = await cabinJob(owner.api);
       const none = await owner.api.get(`/api/jobs/${jobId}/estimate`);
-      expect(none.status).toBe(404);
-      expect(none.body.error.code).toBe("not_found");
+      expect(none.status).toBe(204);
+      expect(none.text).toBe("");
       // a quote needs an estimate
       const early = await owner.api.post(`/api/jobs/${jobId}/quotes`, {});
       expect(early.status).toBe(422);

@@ -1,9 +1,11 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
-import { EstimateSchema } from "../../../../shared/schemas/estimates";
-import { apiRequest } from "../../../lib/api-client";
+import { z } from "zod";
+import { EstimateSchema, type Estimate } from "../../../../shared/schemas/estimates";
+import { apiRequest, NoContent } from "../../../lib/api-client";
 
-// 404 not_found until the estimate is first built from the layout.
-export const getEstimate = (jobId: string, signal?: AbortSignal) => apiRequest(`/jobs/${encodeURIComponent(jobId)}/estimate`, EstimateSchema, { signal });
+// 204 (null here) until the estimate is first built from the layout; 404 only for an unknown job.
+export const getEstimate = async (jobId: string, signal?: AbortSignal): Promise<Estimate | null> =>
+  (await apiRequest(`/jobs/${encodeURIComponent(jobId)}/estimate`, z.union([EstimateSchema, NoContent]), { signal })) ?? null;
 
 export const estimateQueryOptions = (jobId: string) =>
   queryOptions({ queryKey: ["estimates", jobId], queryFn: ({ signal }) => getEstimate(jobId, signal) });

@@ -129,7 +129,7 @@ export function EstimateEditor({ jobId, estimate, canWrite, canAddPrices }: Esti
     setReloading(true);
     try {
       const fresh = await queryClient.fetchQuery({ ...estimateQueryOptions(jobId), staleTime: 0 });
-      reset(fresh);
+      if (fresh) reset(fresh);
       setAlert(null);
     } catch (err) {
       setAlert(`The estimate could not be reloaded. ${err instanceof Error ? err.message : ""}`);

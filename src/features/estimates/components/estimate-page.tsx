@@ -1,4 +1,3 @@
-import { ApiError } from "../../../lib/api-client";
 import { EmptyState } from "../../../components/ui/empty-state";
 import { FormAlert, primaryButtonClass } from "../../../components/ui/form";
 import { TagIcon } from "../../../components/ui/icons";
@@ -20,7 +19,7 @@ function LoadingEstimate() {
   );
 }
 
-/** No estimate yet (404): what it is and, for writers, "Build from the layout". */
+/** No estimate yet (204): what it is and, for writers, "Build from the layout". */
 function NoEstimate({ jobId, canWrite }: { jobId: string; canWrite: boolean }) {
   const generate = useGenerateEstimate();
   return (
@@ -53,7 +52,6 @@ export function EstimatePage({ jobId, canWrite, canAddPrices }: { jobId: string;
   const { data, error, isPending, isFetching, refetch } = useEstimate(jobId);
   if (isPending) return <LoadingEstimate />;
   if (error) {
-    if (error instanceof ApiError && error.status === 404) return <NoEstimate jobId={jobId} canWrite={canWrite} />;
     return (
       <>
         <EstimateHeader jobId={jobId} />
@@ -61,5 +59,6 @@ export function EstimatePage({ jobId, canWrite, canAddPrices }: { jobId: string;
       </>
     );
   }
+  if (data === null) return <NoEstimate jobId={jobId} canWrite={canWrite} />;
   return <EstimateEditor key={data.id} jobId={jobId} estimate={data} canWrite={canWrite} canAddPrices={canAddPrices} />;
 }
