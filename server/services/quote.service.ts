@@ -73,7 +73,7 @@ async function snapshotSystems(manager: EntityManager, companyId: string, jobId:
         : [],
       runs: (doc.runs ?? []).map((r) => ({
         id: r.id,
-        name: r.name || `${pointName.get(r.from) ?? r.from} → ${pointName.get(r.to) ?? r.to}`,
+        name: r.name || r.id,
         from: pointName.get(r.from) ?? r.from,
         to: pointName.get(r.to) ?? r.to,
         size: r.size,
