@@ -1,9 +1,10 @@
+import { RowActions } from "../../../components/ui/row-actions";
 import { useState } from "react";
 import { Link } from "react-router-dom";
 import { JobLimits, type Client } from "../../../../shared/schemas/jobs";
 import { ConfirmDialog } from "../../../components/ui/confirm-dialog";
 import { EmptyState } from "../../../components/ui/empty-state";
-import { dangerButtonClass, FormAlert, primaryButtonClass, secondaryButtonClass } from "../../../components/ui/form";
+import { FormAlert, primaryButtonClass } from "../../../components/ui/form";
 import { PeopleIcon } from "../../../components/ui/icons";
 import { paths } from "../../../config/paths";
 import { ApiError } from "../../../lib/api-client";
@@ -135,30 +136,17 @@ export function ClientsList({ canWrite }: { canWrite: boolean }) {
                   <td className={`${cellClass} whitespace-nowrap text-ink-700`}>{formatDate(client.createdAt)}</td>
                   {canWrite ? (
                     <td className={`${cellClass} whitespace-nowrap text-right`}>
-                      <div className="flex justify-end gap-2">
-                        <button
-                          type="button"
-                          aria-describedby={`client-${client.id}`}
-                          onClick={() => {
-                            setAlert(null);
-                            setEditing({ mode: "edit", client });
-                          }}
-                          className={secondaryButtonClass}
-                        >
-                          Edit
-                        </button>
-                        <button
-                          type="button"
-                          aria-describedby={`client-${client.id}`}
-                          onClick={() => {
-                            setAlert(null);
-                            setDeleting(client);
-                          }}
-                          className={dangerButtonClass}
-                        >
-                          Delete
-                        </button>
-                      </div>
+                      <RowActions
+                        describedBy={`client-${client.id}`}
+                        onEdit={() => {
+                          setAlert(null);
+                          setEditing({ mode: "edit", client });
+                        }}
+                        onDelete={() => {
+                          setAlert(null);
+                          setDeleting(client);
+                        }}
+                      />
                     </td>
                   ) : null}
                 </tr>

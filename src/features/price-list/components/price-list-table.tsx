@@ -1,10 +1,11 @@
+import { RowActions } from "../../../components/ui/row-actions";
 import { useEffect, useMemo, useState } from "react";
 import { formatMoney } from "../../../../shared/money";
 import { CATEGORY_LABELS, PRICE_CATEGORIES, PriceCategory, type PriceItem } from "../../../../shared/schemas/estimates";
 import { ConfirmDialog } from "../../../components/ui/confirm-dialog";
 import { Dialog } from "../../../components/ui/dialog";
 import { EmptyState } from "../../../components/ui/empty-state";
-import { controlClass, dangerButtonClass, FormAlert, FormStatus, primaryButtonClass, secondaryButtonClass } from "../../../components/ui/form";
+import { controlClass, FormAlert, FormStatus, primaryButtonClass, secondaryButtonClass } from "../../../components/ui/form";
 import { TagIcon } from "../../../components/ui/icons";
 import { PlainHeader, SearchInput, SortHeader } from "../../../components/ui/list-controls";
 import { LoadFailed } from "../../../components/ui/load-failed";
@@ -192,30 +193,17 @@ export function PriceList({ canWrite }: { canWrite: boolean }) {
                   </td>
                   {canWrite ? (
                     <td className={cn(cellClass, "whitespace-nowrap text-right")}>
-                      <div className="flex justify-end gap-2">
-                        <button
-                          type="button"
-                          aria-describedby={`price-${item.id}`}
-                          onClick={() => {
-                            setAlert(null);
-                            setEditing({ mode: "edit", item });
-                          }}
-                          className={secondaryButtonClass}
-                        >
-                          Edit
-                        </button>
-                        <button
-                          type="button"
-                          aria-describedby={`price-${item.id}`}
-                          onClick={() => {
-                            setAlert(null);
-                            setDeleting(item);
-                          }}
-                          className={dangerButtonClass}
-                        >
-                          Delete
-                        </button>
-                      </div>
+                      <RowActions
+                        describedBy={`price-${item.id}`}
+                        onEdit={() => {
+                          setAlert(null);
+                          setEditing({ mode: "edit", item });
+                        }}
+                        onDelete={() => {
+                          setAlert(null);
+                          setDeleting(item);
+                        }}
+                      />
                     </td>
                   ) : null}
                 </tr>
