@@ -61,15 +61,19 @@ export function currencyDigits(currency: string): number {
   return digits;
 }
 
-/** "1234.5" (major units, as typed in a CSV or a form) → 123450 minor units; null when it is not a plain amount. */
+/**
+ * "1234.5", "1,234.50" or "$12.50" (major units, as typed in a CSV or a form) → minor units; null
+ * when it is not a plain amount. A comma is read only as a thousands separator in groups of three,
+ * so a decimal comma ("12,50") is refused rather than read as 1,250.
+ */
 export function parseMoney(text: string, currency: string): number | null {
   const digits = currencyDigits(currency);
-  const t = text.trim().replace(/^[^\d\-.]+/, "").replace(/,/g, "");
-  const m = /^(\d{1,13})(?:\.(\d+))?$/.exec(t);
+  const t = text.trim().replace(/^(?:[$€£¥]|[A-Z]{3}\s?)/, "").trim();
+  const m = /^(\d{1,13}|\d{1,3}(?:,\d{3}){1,4})(?:\.(\d+))?$/.exec(t);
   if (!m) return null;
   const fraction = m[2] ?? "";
   if (fraction.length > digits) return null;
-  return Number(m[1]) * 10 ** digits + Number(fraction.padEnd(digits, "0") || "0");
+  return Number(m[1].replace(/,/g, "")) * 10 ** digits + Number(fraction.padEnd(digits, "0") || "0");
 }
 
 /** 123450 → "1234.50" (for CSV export: no grouping, no symbol). */

@@ -1,5 +1,5 @@
 import { Router, type Request } from "express";
-import { AcceptQuoteInput, DeclineQuoteInput, type PublicQuote } from "../../shared/schemas/estimates.js";
+import { AcceptQuoteInput, ClientSnapshotSchema, DeclineQuoteInput, type PublicQuote } from "../../shared/schemas/estimates.js";
 import { publicRoute } from "../auth/context.js";
 import type { Quote } from "../db/entities/index.js";
 import { limitBy } from "../middleware/rate-limit.js";
@@ -13,7 +13,8 @@ function presentPublicQuote(q: Quote): PublicQuote {
     state,
     status: q.status,
     label: quoteLabel(q),
-    snapshot: q.snapshot,
+    // Only what the client may see: no cost, markup or margin (the client PDF shows sell prices only too).
+    snapshot: ClientSnapshotSchema.parse(q.snapshot),
     acceptedName: q.acceptedName,
     acceptedAt: q.acceptedAt?.toISOString() ?? null,
     declinedAt: q.declinedAt?.toISOString() ?? null,

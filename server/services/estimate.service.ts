@@ -81,7 +81,7 @@ export async function generateEstimate(db: DataSource, companyId: string, jobId:
     const scope = companyScope(tx, companyId);
     await scope.mustFind(Job, { id: jobId }, "Job", true);
     const company = await tx.findOneByOrFail(Company, { id: companyId });
-    const existing = await scope.findOne(Estimate, { jobId });
+    const existing = await tx.findOne(Estimate, { where: { companyId, jobId }, lock: { mode: "pessimistic_write" } });
     const [systems, items] = await Promise.all([jobSystems(tx, companyId, jobId), scope.find(PriceItem)]);
     const bom = buildBillOfMaterials(
       systems.map((s) => ({ id: s.id, name: s.name, document: s.document })),

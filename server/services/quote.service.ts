@@ -109,11 +109,16 @@ export async function createQuote(db: DataSource, companyId: string, userId: str
     const missing = view.findings.filter((f) => f.code === "MISSING_PRICE");
     if (missing.length) throw new AppError("unprocessable", `The estimate has ${missing.length} item${missing.length === 1 ? "" : "s"} without a price: add them to the price list and rebuild`, { findings: missing });
     if (view.lines.length === 0) throw new AppError("unprocessable", "The estimate has no lines to quote");
+    // The quote prices the estimate's lines and proves the current layout: both must be of one layout.
+    if (view.findings.some((f) => f.code === "LAYOUT_CHANGED")) {
+      throw new AppError("unprocessable", "A system was changed after the estimate was built: rebuild the estimate from the layout, then make the quote");
+    }
     const tooLarge = view.findings.find((f) => f.code === "AMOUNT_TOO_LARGE");
     if (tooLarge) throw new AppError("unprocessable", tooLarge.message);
     const company = await tx.getRepository(Company).createQueryBuilder("c").addSelect("c.logo").where("c.id = :id", { id: companyId }).setLock("pessimistic_write").getOneOrFail();
     const client = await scope.mustFind(Client, { id: job.clientId }, "Client");
-    const latest = await tx.findOne(Quote, { where: { companyId, jobId }, order: { createdAt: "DESC", revision: "DESC" } });
+    // The job's row is locked above, so a send or a client's answer on this job waits or has finished.
+    const latest = await tx.findOne(Quote, { where: { companyId, jobId }, order: { createdAt: "DESC", revision: "DESC" }, lock: { mode: "pessimistic_write" } });
     if (latest && (latest.status === "accepted" || latest.status === "deposit paid")) {
       throw new AppError("conflict", `Quote ${quoteLabel(latest)} was accepted; a new revision cannot replace it`);
     }
@@ -204,12 +209,18 @@ export async function sendQuote(deps: QuoteDeps, companyId: string, user: { user
   const { db, mailer, publicUrl } = deps;
   let failure: string | null = null;
   const sent = await db.transaction(async (tx) => {
-    const quote = await companyScope(tx, companyId).mustFind(Quote, { id }, "Quote", true);
+    const found = await companyScope(tx, companyId).mustFind(Quote, { id }, "Quote");
+    // One lock order for everything that changes quotes: the job, then every revision of the
+    // quote by revision. A send, a new revision and a client's answer on the same job queue up
+    // instead of deadlocking, and no revision is answered while a later one is being sent.
+    await lockJobAndRevisions(tx, companyId, found.jobId, found.number);
+    const quote = await tx.findOneByOrFail(Quote, { id });
     if (quote.status !== "draft") return quote;
     if (quote.supersededAt) throw new AppError("conflict", "A later revision of this quote was sent; send that one");
     // A draft made before the client accepted an earlier revision must not supersede the accepted one.
     const answered: unknown[] = await tx.query(`SELECT 1 FROM quote WHERE company_id = $1 AND number = $2 AND revision <> $3 AND status IN ('accepted', 'deposit paid') LIMIT 1`, [companyId, quote.number, quote.revision]);
     if (answered.length) throw new AppError("conflict", `The client accepted an earlier revision of ${quote.number}; this draft cannot replace it`);
+    if (quote.validUntil < today()) throw new AppError("conflict", `This draft was valid until ${quote.validUntil}; make a new revision from the estimate`);
     const to = input.to ?? quote.snapshot.client.email;
     if (!to) throw new AppError("invalid_input", "to: the client has no e-mail address; give one", { fields: { to: "the client has no e-mail address" } });
     const link = newLinkToken();
@@ -241,7 +252,10 @@ export async function sendQuote(deps: QuoteDeps, companyId: string, user: { user
     const now = new Date();
     await tx.update(Quote, { id }, { status: "sent", sentAt: now, sentTo: to, sentById: user.userId, sendError: null, linkId: link.id, linkHash: link.hash });
     // The earlier revisions' links now answer "superseded".
-    await tx.query(`UPDATE quote SET superseded_at = $1 WHERE company_id = $2 AND number = $3 AND revision < $4 AND superseded_at IS NULL`, [now, companyId, quote.number, quote.revision]);
+    await tx.query(
+      `UPDATE quote SET superseded_at = $1 WHERE company_id = $2 AND number = $3 AND revision < $4 AND superseded_at IS NULL AND status NOT IN ('accepted', 'deposit paid')`,
+      [now, companyId, quote.number, quote.revision],
+    );
     await tx.query(`UPDATE job SET status = 'quoted', updated_at = now() WHERE id = $1 AND status = 'lead'`, [quote.jobId]);
     await event(tx, quote, "sent", user.name, `to ${to}`);
     return tx.findOneByOrFail(Quote, { id });
@@ -254,6 +268,11 @@ export async function sendQuote(deps: QuoteDeps, companyId: string, user: { user
     throw new AppError("mail_failed", `The e-mail could not be sent (${failure}); the quote stays a draft — try again`);
   }
   return sent;
+}
+
+async function lockJobAndRevisions(tx: EntityManager, companyId: string, jobId: string, number: string) {
+  await tx.query(`SELECT id FROM job WHERE id = $1 AND company_id = $2 FOR UPDATE`, [jobId, companyId]);
+  await tx.query(`SELECT id FROM quote WHERE company_id = $1 AND number = $2 ORDER BY revision FOR UPDATE`, [companyId, number]);
 }
 
 /** A fresh client link for a sent quote; the previous one stops working. */
@@ -305,12 +324,19 @@ async function quoteForToken(manager: EntityManager, token: string, lock = false
 }
 
 const OPEN: QuoteStatus[] = ["sent", "viewed"];
+const lapsed = (q: Quote) => OPEN.includes(q.status) && q.validUntil < today();
+
+/** 410 for a quote past its valid-until date, with whom to ask (ClosedLinkDetails). */
+async function expiredError(manager: EntityManager, q: Quote): Promise<AppError> {
+  const company = await manager.findOneBy(Company, { id: q.companyId });
+  return new AppError("gone", "This quote has expired; ask the contractor for a new one", { reason: "expired", companyName: company?.name ?? null, contactEmail: company?.contactEmail ?? null, phone: company?.phone ?? null });
+}
 
 /** Opens the quote for the client: the first open marks it viewed; a lapsed one becomes expired. */
 export async function openQuoteLink(db: DataSource, token: string): Promise<Quote> {
   const outcome = await db.transaction(async (tx) => {
     const quote = await quoteForToken(tx, token, true);
-    if (OPEN.includes(quote.status) && quote.validUntil < today()) {
+    if (lapsed(quote)) {
       await tx.update(Quote, { id: quote.id }, { status: "expired" });
       await event(tx, quote, "expired", null);
       return "expired" as const;
@@ -329,6 +355,7 @@ export async function openQuoteLink(db: DataSource, token: string): Promise<Quot
 
 export async function quoteLinkPdf(db: DataSource, token: string, publicUrl: string): Promise<{ quote: Quote; pdf: Buffer }> {
   const quote = await quoteForToken(db.manager, token);
+  if (lapsed(quote)) throw await expiredError(db.manager, quote);
   return { quote, pdf: await quotePdf(quote, clientUrl(publicUrl, token)) };
 }
 
@@ -358,12 +385,11 @@ export async function answerQuoteLink(
   onMailError: (error: unknown) => void,
 ): Promise<Quote> {
   const quote = await deps.db.transaction(async (tx) => {
-    const q = await quoteForToken(tx, token, true);
-    if (OPEN.includes(q.status) && q.validUntil < today()) {
-      // The same details as any closed link (ClosedLinkDetails), so the page can say whom to ask.
-      const company = await tx.findOneBy(Company, { id: q.companyId });
-      throw new AppError("gone", "This quote has expired; ask the contractor for a new one", { reason: "expired", companyName: company?.name ?? null, contactEmail: company?.contactEmail ?? null, phone: company?.phone ?? null });
-    }
+    const found = await quoteForToken(tx, token);
+    // The same lock order as a send (job, then the revisions), then the link is checked again.
+    await lockJobAndRevisions(tx, found.companyId, found.jobId, found.number);
+    const q = await quoteForToken(tx, token);
+    if (lapsed(q)) throw await expiredError(tx, q);
     if (!OPEN.includes(q.status)) throw new AppError("conflict", `This quote was already ${q.status === "declined" ? "declined" : "accepted"}`);
     const now = new Date();
     if (answer.kind === "accept") {

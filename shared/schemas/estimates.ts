@@ -340,7 +340,11 @@ export const SaveEstimateInput = z.strictObject({
   wastePercent: percent("waste", 100).optional(),
   manual: z.array(ManualLineInput).max(EstimateLimits.manualLinesMax, `at most ${EstimateLimits.manualLinesMax} manual lines`).optional(),
   overrides: z.record(z.string().max(200), LineOverrideSchema).optional(),
-  supplied: z.array(SuppliedLoadSchema).max(5000).optional(),
+  supplied: z
+    .array(SuppliedLoadSchema)
+    .max(5000)
+    .refine((list) => new Set(list.map((s) => `${s.systemId}/${s.loadId}`)).size === list.length, "supplied: a load may be chosen once")
+    .optional(),
 });
 export type SaveEstimateInput = z.input<typeof SaveEstimateInput>;
 
@@ -483,11 +487,18 @@ export const QuoteLinkSchema = z.object({ url: z.string() });
 
 // ---------------------------------------------------------------- the client's page (no account)
 
+/** A line as the client sees it: what and how much, never the contractor's cost or markup. */
+export const ClientLineSchema = PricedLineSchema.pick({ key: true, source: true, category: true, description: true, quantity: true, unit: true, sellMinor: true });
+export const ClientTotalsSchema = EstimateTotalsSchema.omit({ costMinor: true, marginMinor: true });
+/** The snapshot on the client's page: the same, with lines and totals stripped of costs. */
+export const ClientSnapshotSchema = QuoteSnapshotSchema.extend({ lines: z.array(ClientLineSchema), totals: ClientTotalsSchema });
+export type ClientSnapshot = z.infer<typeof ClientSnapshotSchema>;
+
 export const PublicQuoteSchema = z.object({
   state: z.enum(["open", "accepted", "declined", "deposit paid"]),
   status: QuoteStatus,
   label: z.string(),
-  snapshot: QuoteSnapshotSchema,
+  snapshot: ClientSnapshotSchema,
   acceptedName: z.string().nullable(),
   acceptedAt: z.string().nullable(),
   declinedAt: z.string().nullable(),

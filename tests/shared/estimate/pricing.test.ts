@@ -62,6 +62,13 @@ describe("money rounding (shared/money.ts)", () => {
     expect(parseMoney("$1,234.5", "USD")).toBe(123450);
     expect(parseMoney("0.1", "USD")).toBe(10);
     expect(parseMoney("12.345", "USD")).toBeNull(); // more decimals than the currency has
+    // A decimal comma is refused, never read as a thousands separator (12,50 is not 1,250.00).
+    expect(parseMoney("12,50", "USD")).toBeNull();
+    expect(parseMoney("1,5", "USD")).toBeNull();
+    expect(parseMoney("12,345,678.90", "USD")).toBe(1234567890);
+    // Words around a number are refused, not skipped.
+    expect(parseMoney("abc5", "USD")).toBeNull();
+    expect(parseMoney("approx 5", "USD")).toBeNull();
     expect(parseMoney("1200", "JPY")).toBe(1200);
     expect(parseMoney("12.5", "JPY")).toBeNull();
     expect(parseMoney("abc", "USD")).toBeNull();

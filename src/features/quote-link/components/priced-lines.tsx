@@ -1,4 +1,4 @@
-import { CATEGORY_LABELS, PRICE_CATEGORIES, type EstimateTotals, type PricedLine } from "../../../../shared/schemas/estimates";
+import { CATEGORY_LABELS, PRICE_CATEGORIES, type ClientSnapshot } from "../../../../shared/schemas/estimates";
 import { formatMoney } from "../../../../shared/money";
 import { formatPercent, formatQuantity } from "../utils/format";
 
@@ -9,7 +9,7 @@ const td = "px-3 py-2 align-top text-sm text-ink-800";
  * The priced lines by category and the totals. The client sees what each line is, how much and
  * what it costs them: never the contractor's cost, markup, SKU or how a quantity was worked out.
  */
-export function PricedLines({ lines, totals, currency }: { lines: readonly PricedLine[]; totals: EstimateTotals; currency: string }) {
+export function PricedLines({ lines, totals, currency }: { lines: ClientSnapshot["lines"]; totals: ClientSnapshot["totals"]; currency: string }) {
   const money = (minor: number) => formatMoney(minor, currency);
   const groups = PRICE_CATEGORIES.map((category) => ({ category, lines: lines.filter((l) => l.category === category) })).filter((g) => g.lines.length > 0);
   return (
