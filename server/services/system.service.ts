@@ -205,7 +205,7 @@ export type AutosizeAnswer = AutosizeResult & { costSource?: "price-list" | "def
  * or null when the price list has no cable. Of several items for one size and material the
  * cheapest per conductor-metre counts, as in the bill of materials.
  */
-export async function priceListCosts(manager: EntityManager, companyId: string): Promise<{ costs: unknown; currency: string } | null> {
+export async function priceListCosts(manager: EntityManager, companyId: string, units: "metric" | "imperial"): Promise<{ costs: unknown; currency: string } | null> {
   const [items, company] = await Promise.all([
     companyScope(manager, companyId).find(PriceItem, { where: { category: "cable" } }),
     manager.findOneByOrFail(Company, { id: companyId }),
@@ -220,7 +220,11 @@ export async function priceListCosts(manager: EntityManager, companyId: string):
     if (!current || perConductorMetre < current.cost) best.set(key, { material: item.cableMaterial, size: item.cableSize, cost: perConductorMetre });
   }
   if (best.size === 0) return null;
-  return { costs: { format: "runwright-costs/1", currency: company.currency, per: "m", items: [...best.values()] }, currency: company.currency };
+  // A metric layout is proposed mm² sizes and an imperial one AWG and kcmil, when the price list
+  // has sizes of that family; otherwise every priced size.
+  const all = [...best.values()];
+  const family = all.filter((i) => i.size.endsWith("mm2") === (units === "metric"));
+  return { costs: { format: "runwright-costs/1", currency: company.currency, per: "m", items: family.length ? family : all }, currency: company.currency };
 }
 
 export async function autosizeDocument(db: DataSource, companyId: string, limitProfileId: string | null, document: unknown): Promise<AutosizeAnswer> {
@@ -229,13 +233,13 @@ export async function autosizeDocument(db: DataSource, companyId: string, limitP
   const withLimits = await withProfile(db.manager, companyId, limitProfileId, resolved.value);
   // Auto-size proposes only sizes the company has priced; with no cable in the price list it
   // falls back to indicative default prices and says so.
-  const priced = await priceListCosts(db.manager, companyId);
+  const units = (resolved.value as { units?: unknown })?.units === "imperial" ? "imperial" : "metric";
+  const priced = await priceListCosts(db.manager, companyId, units);
   if (priced) {
     const result = autosize(withLimits, priced.costs);
     if (!result.ok) return result;
     return { ...result, costSource: "price-list", costNote: `Cable cost from your price list (${priced.currency}); only sizes with a price are proposed.` };
   }
-  const units = (resolved.value as { units?: unknown })?.units === "imperial" ? "imperial" : "metric";
   const costs = DEFAULT_COSTS[units];
   const result = autosize(withLimits, costs);
   if (!result.ok) return result;

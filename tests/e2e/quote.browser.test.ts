@@ -110,6 +110,8 @@ describe.skipIf(!hasChromium)("estimate → quote → e-mail → client accepts,
     const acceptedTile = tiles.getByRole("listitem").filter({ hasText: "Accepted" });
     await expect.poll(async () => Number((await acceptedTile.innerText()).match(/(\d+)\s*quotes?/)?.[1] ?? 0), { timeout: 15000 }).toBeGreaterThanOrEqual(1);
     expect(await page.getByRole("list", { name: "Recent activity" }).innerText()).toContain(label);
+    // The money-by-status chart draws once recharts has loaded.
+    await page.locator("figure .recharts-surface").first().waitFor({ timeout: 15000 });
     await page.screenshot({ path: path.join(shots, "6-dashboard.png"), fullPage: true });
 
     expect(watch.problems).toEqual([]);

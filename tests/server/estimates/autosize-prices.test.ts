@@ -31,3 +31,22 @@ describe("auto-size prices cable from the company's price list", () => {
     }
   });
 });
+
+describe("auto-size keeps to the layout's family of sizes", () => {
+  const t = useTestApp();
+
+  it("a metric layout is proposed mm² sizes even when AWG sizes are priced cheaper", async () => {
+    const owner = await signUpCompany(t.app);
+    const work = await createJobWork(owner.api);
+    const items = [
+      { sku: "M-50", description: "50 mm²", category: "cable", unit: "m", unitCostMinor: 1390, cableSize: "50 mm2", cableMaterial: "copper", conductors: 1 },
+      { sku: "M-2.5", description: "2.5 mm²", category: "cable", unit: "m", unitCostMinor: 85, cableSize: "2.5 mm2", cableMaterial: "copper", conductors: 1 },
+      // Far cheaper, but AWG: not for a metric layout while mm² sizes are priced.
+      { sku: "I-4/0", description: "4/0 AWG", category: "cable", unit: "ft", unitCostMinor: 1, cableSize: "4/0 AWG", cableMaterial: "copper", conductors: 1 },
+    ];
+    for (const item of items) expect((await owner.api.post("/api/price-list", item)).status).toBe(201);
+    const proposal = await owner.api.post(`/api/systems/${work.systemId}/autosize`, {});
+    expect(proposal.status, JSON.stringify(proposal.body)).toBe(200);
+    for (const run of proposal.body.runs as Array<{ after: string }>) expect(run.after).toMatch(/mm2$/);
+  });
+});
