@@ -125,7 +125,7 @@ describe.skipIf(!hasChromium)("accounts in headless Chromium: sign up, invite, a
     expect((await owner.api.get("/api/auth/session")).body).toEqual({ signedIn: false });
 
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Settings" }).click();
-    await page.getByRole("heading", { name: "Company" }).waitFor();
+    await page.getByRole("heading", { name: "Company", exact: true }).waitFor();
     await page.getByLabel("Licence number").fill("MDC-2026-118");
     await page.getByLabel("Currency").fill("EUR");
     await page.getByLabel("Labour rate per hour").fill("87.50");

@@ -52,7 +52,7 @@ describe.skipIf(!hasChromium)("the app shell in headless Chromium", () => {
     ];
     for (const [link, emptyTitle] of screens) {
       await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: link }).click();
-      await page.getByRole("heading", { name: emptyTitle }).waitFor();
+      await page.getByRole("heading", { name: emptyTitle, exact: true }).waitFor();
       expect(await page.getByRole("link", { name: link }).getAttribute("aria-current")).toBe("page");
     }
     await page.screenshot({ path: path.join(shots, "settings.png") });
