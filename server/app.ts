@@ -29,6 +29,8 @@ import { priceListRoutes } from "./routes/price-list.routes.js";
 import { estimatingSettingsRoutes, jobEstimateRoutes, quoteRoutes } from "./routes/estimates.routes.js";
 import { quoteLinkRoutes } from "./routes/quote-links.routes.js";
 import { dashboardRoutes } from "./routes/dashboard.routes.js";
+import { jobPaymentRoutes, paymentRoutes, stripeWebhookRoute } from "./routes/payments.routes.js";
+import type { Payments } from "./payments/stripe-client.js";
 
 export interface AppOptions {
   db: DataSource;
@@ -49,6 +51,8 @@ export interface AppOptions {
   trustProxy?: string | number;
   /** Delete expired sessions periodically (the running server does). */
   pruneSessions?: boolean;
+  /** Stripe (or the local fake) for deposits; absent: online deposits are off. */
+  payments?: Payments | null;
 }
 
 /** Builds the Express app. No side effects: it neither listens nor connects. */
@@ -95,8 +99,12 @@ export function createApp(options: AppOptions): Express {
     publicUrl: options.publicUrl ?? "http://127.0.0.1:3000",
     logger,
     rateLimit: options.authRateLimit ?? AUTH_RATE_LIMIT,
+    payments: options.payments ?? null,
   };
   const passport = createPassport(db);
+
+  // Before the API's JSON parser and CSRF guard: Stripe signs the raw bytes and sends no Origin.
+  app.use("/api/webhooks/stripe", stripeWebhookRoute(deps));
 
   const api = express.Router();
   api.use(express.json({ limit: MAX_JSON_BODY_BYTES }));
@@ -128,6 +136,8 @@ export function createApp(options: AppOptions): Express {
   api.use("/quotes", quoteRoutes(deps));
   api.use("/quote-links", quoteLinkRoutes(deps));
   api.use("/dashboard", dashboardRoutes(deps));
+  api.use("/jobs", jobPaymentRoutes(deps));
+  api.use("/payments", paymentRoutes(deps));
   api.use(apiNotFound);
   app.use("/api", api);
 

@@ -16,6 +16,8 @@ export const HTTP_STATUS: Record<ApiErrorCode, number> = {
   internal: 500,
   /** The mail server refused or could not be reached. */
   mail_failed: 502,
+  /** The payment service (Stripe) refused or could not be reached. */
+  payment_failed: 502,
   service_unavailable: 503,
 };
 

@@ -9,6 +9,8 @@ import { createMailer, smtpSettingsFromEnv } from "./mail/mailer.js";
 import { createDataSource } from "./db/data-source.js";
 import { seedDemo } from "./db/seed.js";
 import { closeServer, listen } from "./http-server.js";
+import type { PaymentsSettings } from "./config/payments.js";
+import { createPayments } from "./payments/stripe-client.js";
 
 export interface StartOptions {
   env: Env;
@@ -20,6 +22,8 @@ export interface StartOptions {
   dataDir: string;
   /** SMTP port of the local mail catcher, when SMTP_HOST is unset. */
   mailCatcherPort?: number;
+  /** Stripe, or the local fake npm start runs; null: online deposits are off. */
+  payments?: PaymentsSettings | null;
 }
 
 export interface RunningServer {
@@ -31,7 +35,7 @@ export interface RunningServer {
 }
 
 /** Connects, migrates, seeds, builds the app and listens: the server's only side effects. */
-export async function startServer({ env, databaseUrl, clientDir, seed = true, dataDir, mailCatcherPort }: StartOptions): Promise<RunningServer> {
+export async function startServer({ env, databaseUrl, clientDir, seed = true, dataDir, mailCatcherPort, payments = null }: StartOptions): Promise<RunningServer> {
   const logger = pino({ level: env.LOG_LEVEL });
   // Before anything connects: production refuses to start without SESSION_SECRET.
   const sessionSecret = resolveSessionSecret(env, dataDir);
@@ -55,6 +59,7 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true, da
       publicUrl: publicUrl(env),
       mailer,
       pruneSessions: true,
+      payments: payments ? createPayments(payments) : null,
     });
     const server = await listen(app, env.HOST, env.PORT);
     return {

@@ -20,6 +20,8 @@ export const PERMISSIONS = {
   "prices:write": ["owner", "estimator"],
   /** Estimates and quotes: built and sent by Owners and Estimators (Installers read). */
   "quotes:write": ["owner", "estimator"],
+  /** Refunds send money back to the client: the Owner decides. */
+  "payments:refund": ["owner"],
   /** Limit profiles are company policy: the Owner sets them. */
   "limits:write": ["owner"],
 } as const satisfies Record<string, readonly Role[]>;

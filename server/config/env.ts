@@ -33,6 +33,14 @@ const EnvSchema = z.object({
   /** Ports of the local mail catcher (SMTP in, web inbox) that npm start runs when SMTP_HOST is unset. */
   RUNWRIGHT_MAIL_SMTP_PORT: port.default(1025),
   RUNWRIGHT_MAIL_WEB_PORT: port.default(1080),
+  /** Stripe's secret key (sk_live_… or sk_test_…); when unset, npm start runs the local Stripe fake in development. */
+  STRIPE_SECRET_KEY: z.string().regex(/^(sk|rk)_(live|test)_[A-Za-z0-9_]+$/, "must look like sk_live_… or sk_test_…").optional(),
+  /** The signing secret of the webhook endpoint (whsec_…); required with STRIPE_SECRET_KEY. */
+  STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_[A-Za-z0-9_]+$/, "must look like whsec_…").optional(),
+  /** Another Stripe-compatible API (a fake) instead of Stripe itself, e.g. http://127.0.0.1:12111. Refused in production. */
+  STRIPE_API_BASE: z.string().url().optional(),
+  /** Port of the local Stripe fake that npm start runs when STRIPE_SECRET_KEY is unset. */
+  RUNWRIGHT_STRIPE_FAKE_PORT: port.default(12111),
 });
 
 export type Env = z.infer<typeof EnvSchema>;

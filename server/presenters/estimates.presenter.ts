@@ -71,12 +71,13 @@ export function presentQuoteSummary(q: Quote, senders: Map<string, string>): Quo
   };
 }
 
-export function presentQuoteDetail(q: Quote, senders: Map<string, string>, events: QuoteEvent[]): QuoteDetail {
+export function presentQuoteDetail(q: Quote, senders: Map<string, string>, events: QuoteEvent[], payments: QuoteDetail["payments"]): QuoteDetail {
   return {
     ...presentQuoteSummary(q, senders),
     snapshot: q.snapshot,
     events: events.map((e) => ({ type: e.type as QuoteDetail["events"][number]["type"], at: e.at.toISOString(), actor: e.actor, detail: e.detail })),
     acceptedIp: q.acceptedIp,
     acceptedUserAgent: q.acceptedUserAgent,
+    payments,
   };
 }

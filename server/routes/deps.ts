@@ -2,6 +2,7 @@ import type { Logger } from "pino";
 import type { DataSource } from "typeorm";
 import type { Mailer } from "../mail/mailer.js";
 import type { RateLimitSettings } from "../middleware/rate-limit.js";
+import type { Payments } from "../payments/stripe-client.js";
 
 /** What the account routes need from the app. */
 export interface AccountDeps {
@@ -11,4 +12,6 @@ export interface AccountDeps {
   publicUrl: string;
   logger: Logger;
   rateLimit: RateLimitSettings;
+  /** Stripe (or the local fake); null when online deposits are not set up. */
+  payments: Payments | null;
 }

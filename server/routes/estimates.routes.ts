@@ -8,6 +8,7 @@ import { findEstimate, generateEstimate, presentEstimate, saveEstimate } from ".
 import { deleteLogo, getEstimatingSettings, readLogo, saveLogo, updateEstimatingSettings } from "../services/estimating-settings.service.js";
 import { createQuote, getQuote, issueLink, listJobQuotes, quoteEvents, quoteLabel, quotePdf, revokeLink, sendQuote } from "../services/quote.service.js";
 import { acceptedQuoteForJob } from "../services/cut-list.service.js";
+import { quotePayments } from "../services/payment.service.js";
 import { idParam } from "../services/tenancy.js";
 import type { AccountDeps } from "./deps.js";
 import type { Response } from "express";
@@ -23,7 +24,7 @@ function sendPdf(res: Response, pdf: Buffer, fileName: string, download: boolean
 export { sendPdf };
 
 async function quoteDetail(db: DataSource, quote: Quote) {
-  return presentQuoteDetail(quote, await senderNames(db.manager, [quote]), await quoteEvents(db.manager, quote.id));
+  return presentQuoteDetail(quote, await senderNames(db.manager, [quote]), await quoteEvents(db.manager, quote.id), await quotePayments(db.manager, quote.companyId, quote.id));
 }
 
 /** Company estimating settings and logo: mounted under /api/company. */

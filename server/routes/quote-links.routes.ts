@@ -6,8 +6,9 @@ import { limitBy } from "../middleware/rate-limit.js";
 import { answerQuoteLink, openQuoteLink, quoteLabel, quoteLinkPdf } from "../services/quote.service.js";
 import type { AccountDeps } from "./deps.js";
 import { sendPdf } from "./estimates.routes.js";
+import { publicDeposit, publicReceipt, startDepositCheckout } from "../services/payment.service.js";
 
-function presentPublicQuote(q: Quote): PublicQuote {
+async function presentPublicQuote(deps: AccountDeps, q: Quote): Promise<PublicQuote> {
   const state = q.status === "accepted" || q.status === "declined" || q.status === "deposit paid" ? q.status : "open";
   return {
     state,
@@ -18,6 +19,7 @@ function presentPublicQuote(q: Quote): PublicQuote {
     acceptedName: q.acceptedName,
     acceptedAt: q.acceptedAt?.toISOString() ?? null,
     declinedAt: q.declinedAt?.toISOString() ?? null,
+    deposit: await publicDeposit(deps.db.manager, q, deps.payments !== null),
   };
 }
 
@@ -30,7 +32,7 @@ export function quoteLinkRoutes(deps: AccountDeps): Router {
 
   router.get("/:token", publicRoute, async (req, res) => {
     res.setHeader("Cache-Control", "no-store");
-    res.json(presentPublicQuote(await openQuoteLink(db, tokenOf(req))));
+    res.json(await presentPublicQuote(deps, await openQuoteLink(db, tokenOf(req))));
   });
 
   router.get("/:token/pdf", publicRoute, async (req, res) => {
@@ -43,7 +45,7 @@ export function quoteLinkRoutes(deps: AccountDeps): Router {
     const quote = await answerQuoteLink(deps, tokenOf(req), { kind: "accept", input, ip: req.ip ?? null, userAgent: req.get("user-agent") ?? null }, (error) =>
       logger.warn({ err: error }, "could not e-mail the estimator about an accepted quote"),
     );
-    res.json(presentPublicQuote(quote));
+    res.json(await presentPublicQuote(deps, quote));
   });
 
   router.post("/:token/decline", publicRoute, ...limitBy("quote answer", rateLimit, ["ip"]), async (req, res) => {
@@ -51,7 +53,18 @@ export function quoteLinkRoutes(deps: AccountDeps): Router {
     const quote = await answerQuoteLink(deps, tokenOf(req), { kind: "decline", reason: input.reason ? input.reason : null }, (error) =>
       logger.warn({ err: error }, "could not e-mail the estimator about a declined quote"),
     );
-    res.json(presentPublicQuote(quote));
+    res.json(await presentPublicQuote(deps, quote));
+  });
+
+  /** "Pay deposit": the Stripe Checkout page to send the client to. */
+  router.post("/:token/deposit", publicRoute, ...limitBy("deposit checkout", rateLimit, ["ip"]), async (req, res) => {
+    res.setHeader("Cache-Control", "no-store");
+    res.json({ url: await startDepositCheckout(deps, tokenOf(req)) });
+  });
+
+  router.get("/:token/receipt.pdf", publicRoute, async (req, res) => {
+    const { payment, pdf } = await publicReceipt(db, tokenOf(req));
+    sendPdf(res, pdf, `receipt-${payment.receiptNumber}.pdf`, req.query.download !== undefined);
   });
 
   return router;

@@ -2,6 +2,7 @@ import type { DataSource } from "typeorm";
 import { QUOTE_STATUSES, type Dashboard, type QuoteStatus } from "../../shared/schemas/estimates.js";
 import { Company, Quote } from "../db/entities/index.js";
 import { presentQuoteSummary, senderNames } from "../presenters/estimates.presenter.js";
+import { depositTotals } from "./payment.service.js";
 import { quoteLabel } from "./quote.service.js";
 
 /** The dashboard's figures, from queries over the company's quotes, their events and systems. */
@@ -32,7 +33,7 @@ export async function dashboardFor(db: DataSource, companyId: string, now = new 
   const activityRows: Array<{ quote_id: string; type: string; at: Date; actor: string | null; number: string; revision: number; job_id: string; job_title: string; client_name: string }> = await db.query(
     `SELECT e.quote_id, e.type, e.at, e.actor, q.number, q.revision, q.job_id, q.snapshot->'job'->>'title' AS job_title, q.snapshot->'client'->>'name' AS client_name
        FROM quote_event e JOIN quote q ON q.id = e.quote_id
-      WHERE e.company_id = $1 AND e.type IN ('sent', 'viewed', 'accepted', 'declined', 'expired', 'send_failed')
+      WHERE e.company_id = $1 AND e.type IN ('sent', 'viewed', 'accepted', 'declined', 'expired', 'send_failed', 'deposit_paid', 'payment_flagged', 'refunded')
       ORDER BY e.at DESC LIMIT 20`,
     [companyId],
   );
@@ -58,5 +59,6 @@ export async function dashboardFor(db: DataSource, companyId: string, now = new 
       actor: r.actor,
     })),
     overLimitSystems: over.map((r) => ({ systemId: r.id, systemName: r.name, jobId: r.job_id, jobTitle: r.title, over: Number(r.over) })),
+    deposits: await depositTotals(db, companyId, monthStart),
   };
 }

@@ -30,9 +30,10 @@ function addDays(date: string, days: number): string {
   return d.toISOString().slice(0, 10);
 }
 
-async function event(manager: EntityManager, quote: Pick<Quote, "id" | "companyId">, type: string, actor: string | null, detail: string | null = null) {
+export async function recordQuoteEvent(manager: EntityManager, quote: Pick<Quote, "id" | "companyId">, type: string, actor: string | null, detail: string | null = null) {
   await manager.insert(QuoteEvent, { companyId: quote.companyId, quoteId: quote.id, type, actor, detail: detail?.slice(0, 1000) ?? null });
 }
+const event = recordQuoteEvent;
 
 /** The voltage-drop proof of each system, solved now with its limit profile. */
 async function snapshotSystems(manager: EntityManager, companyId: string, jobId: string): Promise<SnapshotSystem[]> {
@@ -270,7 +271,7 @@ export async function sendQuote(deps: QuoteDeps, companyId: string, user: { user
   return sent;
 }
 
-async function lockJobAndRevisions(tx: EntityManager, companyId: string, jobId: string, number: string) {
+export async function lockJobAndRevisions(tx: EntityManager, companyId: string, jobId: string, number: string) {
   await tx.query(`SELECT id FROM job WHERE id = $1 AND company_id = $2 FOR UPDATE`, [jobId, companyId]);
   await tx.query(`SELECT id FROM quote WHERE company_id = $1 AND number = $2 ORDER BY revision FOR UPDATE`, [companyId, number]);
 }
@@ -300,7 +301,7 @@ export async function revokeLink(db: DataSource, companyId: string, actor: strin
 // ---------------------------------------------------------------- the client's side
 
 /** The quote a client link opens, or the 404/410 explaining why it does not. Locks the row when `lock`. */
-async function quoteForToken(manager: EntityManager, token: string, lock = false): Promise<Quote> {
+export async function quoteForToken(manager: EntityManager, token: string, lock = false): Promise<Quote> {
   const closed = (status: "not_found" | "gone", reason: string, company: Company | null) =>
     new AppError(status, reason === "unknown" ? "We could not find this quote" : `This quote link no longer works (${reason})`, {
       reason,

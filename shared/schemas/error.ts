@@ -15,6 +15,7 @@ export const API_ERROR_CODES = [
   "rate_limited",
   "internal",
   "mail_failed",
+  "payment_failed",
   "service_unavailable",
 ] as const;
 

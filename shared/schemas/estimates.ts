@@ -5,6 +5,7 @@ import { z } from "zod";
 import { normalizeSize } from "../engine/conductors.js";
 import { MAX_MONEY_MINOR } from "../money.js";
 import { withoutControlCharacters } from "./auth.js";
+import { DepositTotalsSchema, PaymentSchema, PublicDepositSchema } from "./payments.js";
 
 export const EstimateLimits = {
   skuMax: 40,
@@ -427,7 +428,7 @@ export const QuoteSnapshotSchema = z.object({
 export type QuoteSnapshot = z.infer<typeof QuoteSnapshotSchema>;
 
 export const QuoteEventSchema = z.object({
-  type: z.enum(["created", "sent", "send_failed", "viewed", "accepted", "declined", "expired", "link_revoked", "link_issued"]),
+  type: z.enum(["created", "sent", "send_failed", "viewed", "accepted", "declined", "expired", "link_revoked", "link_issued", "deposit_paid", "payment_flagged", "refunded"]),
   at: z.string(),
   actor: z.string().nullable(),
   detail: z.string().nullable(),
@@ -468,6 +469,7 @@ export const QuoteDetailSchema = QuoteSummarySchema.extend({
   events: z.array(QuoteEventSchema),
   acceptedIp: z.string().nullable(),
   acceptedUserAgent: z.string().nullable(),
+  payments: z.array(PaymentSchema),
 });
 export type QuoteDetail = z.infer<typeof QuoteDetailSchema>;
 
@@ -502,6 +504,7 @@ export const PublicQuoteSchema = z.object({
   acceptedName: z.string().nullable(),
   acceptedAt: z.string().nullable(),
   declinedAt: z.string().nullable(),
+  deposit: PublicDepositSchema,
 });
 export type PublicQuote = z.infer<typeof PublicQuoteSchema>;
 
@@ -530,5 +533,6 @@ export const DashboardSchema = z.object({
   awaiting: z.array(QuoteSummarySchema),
   activity: z.array(z.object({ quoteId: z.string(), label: z.string(), jobId: z.string(), jobTitle: z.string(), clientName: z.string(), type: z.string(), at: z.string(), actor: z.string().nullable() })),
   overLimitSystems: z.array(z.object({ systemId: z.string(), systemName: z.string(), jobId: z.string(), jobTitle: z.string(), over: z.number().int() })),
+  deposits: DepositTotalsSchema,
 });
 export type Dashboard = z.infer<typeof DashboardSchema>;

@@ -46,15 +46,18 @@ describe("npm start", () => {
     const dataDir = path.join(tmp, "data");
     const smtpPort = await findFreePort();
     const webPort = await findFreePort();
+    const stripePort = await findFreePort();
     let health: unknown;
     let inbox = 0;
+    let stripeFake = 0;
     let page = "";
-    const env = { PORT: String(port), RUNWRIGHT_DB_PORT: String(dbPort), RUNWRIGHT_DATA_DIR: dataDir, RUNWRIGHT_MAIL_SMTP_PORT: String(smtpPort), RUNWRIGHT_MAIL_WEB_PORT: String(webPort) };
+    const env = { PORT: String(port), RUNWRIGHT_DB_PORT: String(dbPort), RUNWRIGHT_DATA_DIR: dataDir, RUNWRIGHT_MAIL_SMTP_PORT: String(smtpPort), RUNWRIGHT_MAIL_WEB_PORT: String(webPort), RUNWRIGHT_STRIPE_FAKE_PORT: String(stripePort), STRIPE_SECRET_KEY: "", STRIPE_WEBHOOK_SECRET: "", STRIPE_API_BASE: "" };
     const run = await startCommand(env, (line, kill) => {
       if (!line.startsWith("Runwright is running at")) return;
       void (async () => {
         health = await (await fetch(`http://127.0.0.1:${port}/api/health`)).json();
         inbox = (await fetch(`http://127.0.0.1:${webPort}/api/healthz`)).status;
+        stripeFake = (await fetch(`http://127.0.0.1:${stripePort}/_fake/health`)).status;
         page = await (await fetch(`http://127.0.0.1:${port}/price-list`)).text();
         kill();
       })();
@@ -62,6 +65,8 @@ describe("npm start", () => {
     expect(run.stdout).toContain(`Runwright is running at http://127.0.0.1:${port}/`);
     expect(run.stdout).toContain(`Mail goes to the local catcher: SMTP on 127.0.0.1:${smtpPort}, inbox at http://127.0.0.1:${webPort}/`);
     expect(inbox).toBe(200);
+    expect(run.stdout).toContain(`Deposits go to the local Stripe fake at http://127.0.0.1:${stripePort}/`);
+    expect(stripeFake).toBe(200);
     expect(health).toMatchObject({ status: "ok", db: "up" });
     // The development session secret was made and kept in the data folder.
     expect(readFileSync(path.join(dataDir, "session-secret"), "utf8").trim().length).toBeGreaterThanOrEqual(32);
@@ -105,6 +110,20 @@ describe("npm start", () => {
     expect(run.code).toBe(1);
     expect(run.stderr.trim()).toMatch(/^runwright: SESSION_SECRET is not set; production needs a random secret of at least 32 characters/);
     expect(existsSync(path.join(tmp, "prod", "postgres"))).toBe(false);
+  });
+
+  it("refuses to start in production on the Stripe fake's key, in one line, before starting anything", async () => {
+    const run = await startCommand({
+      NODE_ENV: "production",
+      SESSION_SECRET: "s".repeat(40),
+      STRIPE_SECRET_KEY: "sk_test_runwright_fake_0123",
+      STRIPE_WEBHOOK_SECRET: "whsec_0123",
+      PORT: String(await findFreePort()),
+      RUNWRIGHT_DATA_DIR: path.join(tmp, "prod-fake"),
+    });
+    expect(run.code).toBe(1);
+    expect(run.stderr.trim()).toBe("runwright: STRIPE_SECRET_KEY is the local Stripe fake's key; production needs a real Stripe secret key.");
+    expect(existsSync(path.join(tmp, "prod-fake", "postgres"))).toBe(false);
   });
 
   it("names the variable when the environment is wrong", async () => {

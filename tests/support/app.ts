@@ -4,7 +4,10 @@ import type { Express } from "express";
 import type { DataSource } from "typeorm";
 import { createApp, type AppOptions } from "../../server/app.js";
 import type { RateLimitSettings } from "../../server/middleware/rate-limit.js";
-import { afterAll, beforeAll } from "vitest";
+import { afterAll, beforeAll, inject } from "vitest";
+import type { PaymentsSettings } from "../../server/config/payments.js";
+import { connectToStripeFake } from "../../server/payments/local-fake.js";
+import { createPayments } from "../../server/payments/stripe-client.js";
 import { catcherMailer } from "./mail.js";
 import { openTestDb } from "./test-db.js";
 
@@ -12,6 +15,8 @@ export interface TestApp {
   app: Express;
   /** http://127.0.0.1:<port> — also the base of links in the app's e-mails. */
   url: string;
+  /** This app's account on the run's Stripe fake (its own key and webhook secret); null with payments off. */
+  stripe: (PaymentsSettings & { apiBase: string }) | null;
   close(): Promise<void>;
 }
 
@@ -27,11 +32,14 @@ export async function startTestApp(db: DataSource, options: Partial<AppOptions> 
   await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const mailer = catcherMailer();
-  const app = createApp({ db, publicUrl: url, mailer, authRateLimit: ROOMY_RATE_LIMIT, ...options });
+  // Payments through the run's Stripe fake unless the test says otherwise (payments: null = off).
+  const stripe = options.payments === undefined ? ((await connectToStripeFake(inject("stripeFake").url, `${url}/api/webhooks/stripe`)) as PaymentsSettings & { apiBase: string }) : null;
+  const app = createApp({ db, publicUrl: url, mailer, authRateLimit: ROOMY_RATE_LIMIT, ...(stripe ? { payments: createPayments(stripe) } : {}), ...options });
   server.on("request", app);
   return {
     app,
     url,
+    stripe,
     close: () =>
       new Promise((resolve) => {
         mailer.close();

@@ -6,6 +6,7 @@ import type { TestApp } from "./app.js";
 import { waitForMail } from "./mail.js";
 import { createJobWork, type JobWork } from "./jobs.js";
 import { createQuoteWork, type QuoteWork } from "./quotes.js";
+import { payDeposit } from "./stripe.js";
 
 /** A company with one person of each role, a spare member to act on, and a pending invitation. */
 export interface CompanyFixture {
@@ -23,6 +24,8 @@ export interface CompanyFixture {
   quotes: () => Promise<QuoteWork>;
   /** Made on first call: the sent quote accepted through its client link. */
   accepted: () => Promise<QuoteWork>;
+  /** Made on first call: the accepted quote's deposit paid on the Stripe fake and recorded from its webhook. */
+  paid: () => Promise<QuoteWork & { paymentId: string }>;
 }
 
 export async function companyFixture(db: DataSource, app: TestApp): Promise<CompanyFixture> {
@@ -39,6 +42,7 @@ export async function companyFixture(db: DataSource, app: TestApp): Promise<Comp
   const work = await createJobWork(owner.api);
   let quotes: Promise<QuoteWork> | undefined;
   let accepted: Promise<QuoteWork> | undefined;
+  let paid: Promise<QuoteWork & { paymentId: string }> | undefined;
   const fixture: CompanyFixture = {
     companyId: owner.companyId,
     owner,
@@ -55,6 +59,8 @@ export async function companyFixture(db: DataSource, app: TestApp): Promise<Comp
         expect(answer.status, JSON.stringify(answer.body)).toBe(200);
         return q;
       })),
+    paid: () =>
+      (paid ??= fixture.accepted().then(async (q) => ({ ...q, paymentId: await payDeposit(app, owner.api, work.jobId, q.token, { accept: false }) }))),
   };
   return fixture;
 }

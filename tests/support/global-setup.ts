@@ -8,6 +8,7 @@ import { startMailCatcher } from "../../server/mail/catcher.js";
 import { buildClient } from "../../server/scripts/build-client.js";
 import { findFreePort } from "../../server/scripts/port-check.js";
 import { testDatabaseUrl } from "./test-db.js";
+import { startStripeFake } from "../../server/fakes/stripe/index.js";
 
 declare module "vitest" {
   export interface ProvidedContext {
@@ -15,6 +16,8 @@ declare module "vitest" {
     clientDir: string;
     /** The run's local SMTP catcher: send to smtpPort, read back through webPort's REST API. */
     mailCatcher: { smtpPort: number; webPort: number };
+    /** The run's local Stripe fake; each test app registers its own key and webhook with it. */
+    stripeFake: { url: string };
   }
 }
 
@@ -32,5 +35,11 @@ export default async function setup(project: TestProject): Promise<() => Promise
 
   const catcher = await startMailCatcher(await findFreePort(), await findFreePort(), path.join(base, "mail"));
   project.provide("mailCatcher", { smtpPort: catcher.smtpPort, webPort: catcher.webPort });
-  return () => catcher.stop();
+  // Webhook retries come quickly in tests (a test that stops the app sees them give up soon).
+  const stripeFake = await startStripeFake({ retryDelaysMs: [200, 500, 1000] });
+  project.provide("stripeFake", { url: stripeFake.url });
+  return async () => {
+    await stripeFake.stop();
+    await catcher.stop();
+  };
 }

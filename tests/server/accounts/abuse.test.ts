@@ -9,6 +9,7 @@ import { startTestApp, useTestApp } from "../../support/app.js";
 import { openTestDb } from "../../support/test-db.js";
 import { createJobWork, exampleSystem } from "../../support/jobs.js";
 import { createQuoteWork } from "../../support/quotes.js";
+import { payDeposit } from "../../support/stripe.js";
 
 describe("rate limits: 10 per 15 minutes, per IP and per e-mail", () => {
   let db: DataSource;
@@ -141,7 +142,8 @@ describe("CSRF: state-changing requests need the custom header and our own origi
     const { listRoutes } = await import("../../../server/routes/route-table.js");
     const { companyFixture, companySnapshot } = await import("../../support/fixtures.js");
     const f = await companyFixture(t.db, t.app);
-    const changes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && r.method !== "GET");
+    // Stripe's webhook carries no session and no Origin: its signature is its proof (400 without one, tested in payments).
+    const changes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && r.method !== "GET" && r.path !== "/api/webhooks/stripe");
     expect(changes.length).toBeGreaterThan(10);
     const before = await companySnapshot(t.db, f.companyId);
     const companies = await t.db.query(`SELECT count(*)::int AS n FROM company`);
@@ -150,6 +152,8 @@ describe("CSRF: state-changing requests need the custom header and our own origi
       const response = await f.owner.api.call(route.method, path, { email: f.spare.email, role: "installer", companyName: "Forged", name: "F", password: TEST_PASSWORD }, { csrf: false });
       expect(response.status, `${route.method} ${route.path}`).toBe(403);
     }
+    const unsigned = await f.owner.api.post("/api/webhooks/stripe", { id: "evt_csrf", type: "checkout.session.completed" }, { csrf: false });
+    expect(unsigned.status).toBe(400);
     expect(await companySnapshot(t.db, f.companyId)).toEqual(before);
     expect(await t.db.query(`SELECT count(*)::int AS n FROM company`)).toEqual(companies);
   });
@@ -245,6 +249,9 @@ describe("hostile input on every route that reads a body", () => {
     "POST /api/quotes/:quoteId/link": {},
     "POST /api/quote-links/:token/accept": { name: "N", agree: true },
     "POST /api/quote-links/:token/decline": { reason: "R" },
+    "POST /api/quote-links/:token/deposit": {},
+    "POST /api/payments/:paymentId/refunds": { amountMinor: 100, reason: "duplicate" },
+    "POST /api/webhooks/stripe": { id: "evt_hostile", type: "checkout.session.completed", data: { object: {} } },
   };
   const HOSTILE: unknown[] = [
     "a\u0000b",
@@ -278,6 +285,7 @@ describe("hostile input on every route that reads a body", () => {
       itemId: quotes.priceItemId,
       quoteId: quotes.quoteId,
       token: quotes.token,
+      paymentId: await payDeposit(t.app, owner.api, work.jobId, quotes.token),
     };
     const writes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && ["POST", "PATCH", "PUT"].includes(r.method) && r.path !== "/api/auth/sign-out");
     expect(writes.map((r) => `${r.method} ${r.path}`).filter((key) => !(key in VALID)), "routes without a VALID body").toEqual([]);

@@ -154,6 +154,14 @@ const MATRIX: Record<string, Row> = {
   "POST /api/quote-links/:token/accept": { request: async (f) => ({ path: `/api/quote-links/${(await f.quotes()).token}/accept`, body: { name: "Matrix Client", agree: true } }), expect: firstAnswerCounts },
   "POST /api/quote-links/:token/decline": { request: async (f) => ({ path: `/api/quote-links/${(await f.quotes()).token}/decline`, body: {} }), expect: firstAnswerCounts },
   "GET /api/dashboard": { request: () => ({}), expect: signedIn(200) },
+  // Deposits: "Pay deposit" is the client's (the link is the authority); a second press reuses the session.
+  "POST /api/quote-links/:token/deposit": { request: async (f) => ({ path: `/api/quote-links/${(await f.accepted()).token}/deposit` }), expect: all(200) },
+  "GET /api/quote-links/:token/receipt.pdf": { request: async (f) => ({ path: `/api/quote-links/${(await f.paid()).token}/receipt.pdf` }), expect: all(200) },
+  "GET /api/jobs/:jobId/payments": { request: (f) => ({ path: `/api/jobs/${f.work.jobId}/payments` }), expect: signedIn(200) },
+  "GET /api/payments/:paymentId/receipt.pdf": { request: async (f) => ({ path: `/api/payments/${(await f.paid()).paymentId}/receipt.pdf` }), expect: signedIn(200) },
+  "POST /api/payments/:paymentId/refunds": { request: async (f) => ({ path: `/api/payments/${(await f.paid()).paymentId}/refunds`, body: { amountMinor: 100 } }), expect: ownerOnly(201) },
+  // Stripe's webhook: no session, no CSRF; the signature is the authority (an unsigned body is 400 for everyone).
+  "POST /api/webhooks/stripe": { request: () => ({ body: { id: "evt_unsigned", type: "checkout.session.completed" } }), expect: all(400) },
   "DELETE /api/attachments/:attachmentId": {
     request: async (f) => {
       const photo = await f.owner.api.upload(`/api/jobs/${f.work.jobId}/attachments`, { content: TINY_PNG, name: "doomed.png", type: "image/png" });

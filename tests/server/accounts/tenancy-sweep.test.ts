@@ -17,9 +17,10 @@ const TARGETS: Record<string, (a: CompanyFixture) => string> = {
   attachmentId: (a) => a.work.attachmentId,
   itemId: () => quoteWorkOfA.priceItemId,
   quoteId: () => quoteWorkOfA.quoteId,
+  paymentId: () => quoteWorkOfA.paymentId,
 };
 // A's price list and sent quote, made before the sweep.
-let quoteWorkOfA: QuoteWork;
+let quoteWorkOfA: QuoteWork & { paymentId: string };
 
 // A valid body for routes that read one, so the answer is about the id and not the input.
 const BODIES: Record<string, unknown> = {
@@ -35,6 +36,7 @@ const BODIES: Record<string, unknown> = {
   "PUT /api/jobs/:jobId/estimate": { version: 1, markupPercent: 99 },
   "POST /api/jobs/:jobId/quotes": {},
   "POST /api/quotes/:quoteId/send": {},
+  "POST /api/payments/:paymentId/refunds": { amountMinor: 100 },
 };
 
 describe("tenancy sweep: a member of company B never reaches company A's resources", () => {
@@ -45,7 +47,8 @@ describe("tenancy sweep: a member of company B never reaches company A's resourc
   beforeAll(async () => {
     a = await companyFixture(t.db, t.app);
     b = await companyFixture(t.db, t.app);
-    quoteWorkOfA = await a.quotes();
+    // Sent, accepted and its deposit paid, so payment routes have a target too.
+    quoteWorkOfA = await a.paid();
   });
 
   it("finds the routes that take a resource id from Express's router", () => {
