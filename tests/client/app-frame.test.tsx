@@ -14,7 +14,17 @@ describe("the app frame", () => {
     const api = stubApi({
       "GET /api/auth/session": sessionAs("owner"),
       "GET /api/health": healthUp,
-      "GET /api/dashboard": { body: { currency: "USD", month: "2026-12", byStatus: [], awaiting: [], activity: [], overLimitSystems: [] } },
+      "GET /api/dashboard": {
+        body: {
+          currency: "USD",
+          month: "2026-12",
+          byStatus: [],
+          awaiting: [],
+          activity: [],
+          overLimitSystems: [],
+          deposits: { receivedThisMonth: { count: 0, amountMinor: 0, refundedMinor: 0 }, outstanding: { count: 0, amountMinor: 0 }, flagged: [] },
+        },
+      },
     });
     renderAt("/");
     expect(await screen.findByRole("status", { name: "Database up" })).toBeTruthy();

@@ -65,6 +65,32 @@ const full = {
     { quoteId: QUOTE_B, label: "Q-2026-0038 R1", jobId: OTHER_JOB_ID, jobTitle: "Boathouse lighting", clientName: "Harbour Sail Club", type: "accepted", at: "2026-12-01T11:00:00.000Z", actor: "Sam Harbour" },
   ],
   overLimitSystems: [{ systemId: SYSTEM_ID, systemName: "House bank", jobId: JOB_ID, jobTitle: "Cabin battery bank", over: 2 }],
+  deposits: { receivedThisMonth: { count: 1, amountMinor: 28_800, refundedMinor: 0 }, outstanding: { count: 1, amountMinor: 144_705 }, flagged: [] as unknown[] },
+};
+
+const noDeposits = { receivedThisMonth: { count: 0, amountMinor: 0, refundedMinor: 0 }, outstanding: { count: 0, amountMinor: 0 }, flagged: [] };
+
+const PAYMENT_ID = "9b1c2d3e-4f5a-4b6c-8d7e-000000000004";
+const flaggedPayment = {
+  id: PAYMENT_ID,
+  quoteId: QUOTE_B,
+  jobId: OTHER_JOB_ID,
+  quoteLabel: "Q-2026-0038 R1",
+  receiptNumber: "R-2026-0008",
+  status: "mismatch",
+  mismatchReason: "Paid $120.00; the deposit due was $386.70",
+  amountMinor: 12_000,
+  currency: "USD",
+  expectedAmountMinor: 38_670,
+  expectedCurrency: "USD",
+  refundedMinor: 0,
+  paidAt: "2026-12-03T09:30:00.000Z",
+  payerName: "Sam Harbour",
+  payerEmail: null,
+  receiptSentAt: null,
+  receiptError: null,
+  stripePaymentIntentId: "pi_3PqR5sT6uV7wX8yZ",
+  refunds: [],
 };
 
 const base = () => ({ "GET /api/auth/session": sessionAs("estimator"), "GET /api/health": healthUp });
@@ -117,11 +143,74 @@ describe("the Dashboard", () => {
   it("says there is nothing to follow up when the company has no quotes and no systems over limit", async () => {
     stubApi({
       ...base(),
-      [DASHBOARD]: { body: { currency: "USD", month: "2026-12", byStatus: [{ status: "draft", count: 0, totalMinor: 0 }], awaiting: [], activity: [], overLimitSystems: [] } },
+      [DASHBOARD]: { body: { currency: "USD", month: "2026-12", byStatus: [{ status: "draft", count: 0, totalMinor: 0 }], awaiting: [], activity: [], overLimitSystems: [], deposits: noDeposits } },
     });
     renderAt("/");
     expect(await screen.findByRole("heading", { name: "Nothing to follow up yet" })).toBeTruthy();
     expect(screen.queryByRole("list", { name: "Quotes this month by status" })).toBeNull();
+    expect(screen.queryByRole("list", { name: "Deposits" })).toBeNull();
+  });
+
+  it("shows the deposits received this month with what was refunded, the deposits outstanding and the payments to check", async () => {
+    const api = stubApi({
+      ...base(),
+      [DASHBOARD]: {
+        body: {
+          ...full,
+          activity: [
+            { quoteId: QUOTE_B, label: "Q-2026-0038 R1", jobId: OTHER_JOB_ID, jobTitle: "Boathouse lighting", clientName: "Harbour Sail Club", type: "payment_flagged", at: "2026-12-03T09:30:00.000Z", actor: null },
+            { quoteId: QUOTE_A, label: "Q-2026-0042 R2", jobId: JOB_ID, jobTitle: "Cabin battery bank", clientName: "Ridge Cabins Ltd", type: "deposit_paid", at: "2026-12-02T09:30:00.000Z", actor: null },
+            { quoteId: QUOTE_A, label: "Q-2026-0042 R2", jobId: JOB_ID, jobTitle: "Cabin battery bank", clientName: "Ridge Cabins Ltd", type: "refunded", at: "2026-12-02T12:00:00.000Z", actor: "Ada Quill" },
+          ],
+          deposits: {
+            receivedThisMonth: { count: 3, amountMinor: 333_405, refundedMinor: 10_000 },
+            outstanding: { count: 2, amountMinor: 183_375 },
+            flagged: [flaggedPayment],
+          },
+        },
+      },
+    });
+    renderAt("/");
+    const tiles = await screen.findByRole("list", { name: "Deposits" });
+    const [received, outstanding] = within(tiles).getAllByRole("listitem");
+    expect(within(received).getByRole("heading", { name: "Deposits received this month" })).toBeTruthy();
+    expect(received.textContent).toBe("Deposits received this month3 deposits$3,334.05$100.00 refunded");
+    expect(within(outstanding).getByRole("heading", { name: "Deposits outstanding" })).toBeTruthy();
+    expect(outstanding.textContent).toBe("Deposits outstanding2 deposits$1,833.75Accepted quotes waiting for their deposit");
+
+    const toCheck = screen.getByRole("list", { name: "Payments to check" });
+    const items = within(toCheck).getAllByRole("listitem");
+    expect(items).toHaveLength(1);
+    expect(within(items[0]).getByRole("link", { name: "Q-2026-0038 R1" }).getAttribute("href")).toBe(`/jobs/${OTHER_JOB_ID}/quotes/${QUOTE_B}`);
+    expect(items[0].textContent).toContain("$120.00");
+    expect(items[0].textContent).toContain("Paid $120.00; the deposit due was $386.70");
+    expect(items[0].textContent).toContain("R-2026-0008");
+
+    const events = within(screen.getByRole("list", { name: "Recent activity" })).getAllByRole("listitem");
+    expect(events.map((e) => e.querySelector("span")?.textContent)).toEqual(["Payment flagged", "Deposit paid", "Refunded"]);
+    expect(api.unexpected).toEqual([]);
+  });
+
+  it("leaves out the refunded amount when nothing was refunded, and the list of payments to check when there is none", async () => {
+    stubApi({ ...base(), [DASHBOARD]: { body: full } });
+    renderAt("/");
+    const tiles = await screen.findByRole("list", { name: "Deposits" });
+    const [received, outstanding] = within(tiles).getAllByRole("listitem");
+    expect(received.textContent).toBe("Deposits received this month1 deposit$288.00");
+    expect(outstanding.textContent).toContain("1 deposit$1,447.05");
+    expect(screen.queryByRole("list", { name: "Payments to check" })).toBeNull();
+    expect(screen.queryByText("Payments to check")).toBeNull();
+  });
+
+  it("is not empty when the only news is a payment to check", async () => {
+    stubApi({
+      ...base(),
+      [DASHBOARD]: { body: { currency: "USD", month: "2026-12", byStatus: [], awaiting: [], activity: [], overLimitSystems: [], deposits: { ...noDeposits, flagged: [flaggedPayment] } } },
+    });
+    renderAt("/");
+    const toCheck = await screen.findByRole("list", { name: "Payments to check" });
+    expect(within(toCheck).getByRole("link", { name: "Q-2026-0038 R1" })).toBeTruthy();
+    expect(screen.queryByRole("heading", { name: "Nothing to follow up yet" })).toBeNull();
   });
 
   it("says when the dashboard could not be loaded, and tries again", async () => {

@@ -457,6 +457,7 @@ describe("the Estimate screen", () => {
       acceptedIp: null,
       acceptedUserAgent: null,
       events: [{ type: "created", at: "2026-12-01T09:00:00.000Z", actor: "Ada Quill", detail: null }],
+      payments: [],
       snapshot: {
         company: { name: "Kestrel Bay DC Works", licenceNumber: null, contactEmail: null, phone: null, address: null, logo: null },
         client: { name: job.client.name, email: "office@ridge.example", phone: null, billingAddress: null },

@@ -109,17 +109,19 @@ const detail = (extra: Record<string, unknown> = {}) => ({
 
 const JOB = `GET /api/jobs/${JOB_ID}`;
 const QUOTES = `GET /api/jobs/${JOB_ID}/quotes`;
+const PAYMENTS = `GET /api/jobs/${JOB_ID}/payments`;
 const base = (role: "owner" | "estimator" | "installer" = "estimator") => ({
   "GET /api/auth/session": sessionAs(role),
   "GET /api/health": healthUp,
   [QUOTES]: { body: { items: [] } },
+  [PAYMENTS]: { body: { items: [] } },
 });
 
 const systemsList = () => screen.getByRole("list", { name: "Systems" });
 const attachmentsList = () => screen.getByRole("list", { name: "Attachments" });
 
 describe("the Job page", () => {
-  it("shows the job, its systems with their last solve, its photos and plans, and no quotes yet", async () => {
+  it("shows the job, its systems with their last solve, its photos and plans, and no quotes or payments yet", async () => {
     const api = stubApi({ ...base(), [JOB]: { body: detail() } });
     renderAt(`/jobs/${JOB_ID}`);
     expect(await screen.findByRole("heading", { level: 1, name: "Cabin battery bank" })).toBeTruthy();
@@ -162,6 +164,10 @@ describe("the Job page", () => {
     await waitFor(() => expect(quotes.textContent).toContain("No quotes yet"));
     expect(within(quotes).getByRole("link", { name: "Estimate" }).getAttribute("href")).toBe(`/jobs/${JOB_ID}/estimate`);
     expect(within(quotes).queryByRole("link", { name: "Cut list PDF" })).toBeNull();
+    const payments = screen.getByRole("region", { name: "Payments" });
+    await waitFor(() => expect(payments.textContent).toContain("No payments yet."));
+    expect(within(payments).queryByRole("table")).toBeNull();
+    expect(api.callsTo(PAYMENTS)).toHaveLength(1);
     expect(api.unexpected).toEqual([]);
   });
 
@@ -391,6 +397,64 @@ describe("the Job page", () => {
     expect(rows[2].textContent).toContain("Not sent: the e-mail failed");
     expect(within(quotes).getByRole("link", { name: "Cut list PDF" }).getAttribute("href")).toBe(`/api/jobs/${JOB_ID}/cut-list.pdf`);
     expect(within(quotes).getByRole("link", { name: "Estimate" }).getAttribute("href")).toBe(`/jobs/${JOB_ID}/estimate`);
+  });
+
+  it("lists the payments of the job's quotes with their quote, status, amount, date and receipt", async () => {
+    const R2 = "7a1b2c3d-4e5f-4a6b-8c7d-000000000002";
+    const payment = (id: string, receiptNumber: string, extra: Record<string, unknown> = {}) => ({
+      id,
+      quoteId: R2,
+      jobId: JOB_ID,
+      quoteLabel: "Q-2026-0042 R2",
+      receiptNumber,
+      status: "paid",
+      mismatchReason: null,
+      amountMinor: 144_705,
+      currency: "USD",
+      expectedAmountMinor: 144_705,
+      expectedCurrency: "USD",
+      refundedMinor: 0,
+      paidAt: "2026-11-24T10:00:00.000Z",
+      payerName: "Morgan Ridge",
+      payerEmail: "morgan@ridge.example",
+      receiptSentAt: "2026-11-24T10:01:00.000Z",
+      receiptError: null,
+      stripePaymentIntentId: "pi_3PqR5sT6uV7wX8yZ",
+      refunds: [],
+      ...extra,
+    });
+    const deposit = payment("9b1c2d3e-4f5a-4b6c-8d7e-000000000003", "R-2026-0007", { status: "partially refunded", refundedMinor: 20_000 });
+    const odd = payment("9b1c2d3e-4f5a-4b6c-8d7e-000000000004", "R-2026-0008", { status: "mismatch", mismatchReason: "Paid in EUR; the deposit was due in USD", amountMinor: 130_000, currency: "EUR", paidAt: "2026-11-25T10:00:00.000Z" });
+    const api = stubApi({ ...base(), [JOB]: { body: detail() }, [PAYMENTS]: { body: { items: [deposit, odd] } } });
+    renderAt(`/jobs/${JOB_ID}`);
+    const payments = await screen.findByRole("region", { name: "Payments" });
+    const table = await within(payments).findByRole("table", { name: "Payments of this job, with their receipts" });
+    const rows = within(table).getAllByRole("row");
+    expect(rows).toHaveLength(3);
+    expect(within(rows[1]).getByRole("link", { name: "Q-2026-0042 R2" }).getAttribute("href")).toBe(`/jobs/${JOB_ID}/quotes/${R2}`);
+    expect(rows[1].textContent).toContain("Partly refunded");
+    expect(rows[1].textContent).toContain("$1,447.05");
+    expect(rows[1].textContent).toContain("$200.00 refunded");
+    expect(rows[1].textContent).toContain(new Intl.DateTimeFormat(undefined, { day: "numeric", month: "short", year: "numeric" }).format(new Date("2026-11-24T10:00:00.000Z")));
+    expect(within(rows[1]).getByRole("link", { name: "Receipt R-2026-0007 (PDF)" }).getAttribute("href")).toBe(`/api/payments/${deposit.id}/receipt.pdf`);
+    expect(rows[2].textContent).toContain("Check this payment");
+    expect(rows[2].textContent).toContain("Paid in EUR; the deposit was due in USD");
+    expect(rows[2].textContent).toContain("€1,300.00");
+    expect(within(rows[2]).getByRole("link", { name: "Receipt R-2026-0008 (PDF)" }).getAttribute("href")).toBe(`/api/payments/${odd.id}/receipt.pdf`);
+    expect(payments.textContent).not.toContain("No payments yet");
+    expect(api.unexpected).toEqual([]);
+  });
+
+  it("says when the payments could not be loaded, and tries again", async () => {
+    let down = true;
+    const api = stubApi({ ...base(), [JOB]: { body: detail() }, [PAYMENTS]: () => (down ? apiError(503, "service_unavailable", "The database is not answering.") : { body: { items: [] } }) });
+    renderAt(`/jobs/${JOB_ID}`);
+    const payments = await screen.findByRole("region", { name: "Payments" });
+    expect((await within(payments).findByRole("alert")).textContent).toContain("The payments could not be loaded. The database is not answering.");
+    down = false;
+    fireEvent.click(within(payments).getByRole("button", { name: "Try again" }));
+    await waitFor(() => expect(payments.textContent).toContain("No payments yet."));
+    expect(api.callsTo(PAYMENTS)).toHaveLength(2);
   });
 
   it("answers an unknown job with Job not found and a way back", async () => {

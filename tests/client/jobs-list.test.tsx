@@ -220,8 +220,9 @@ describe("the New job form", () => {
       [jobsUrl("page=1&pageSize=25&sort=-updatedAt")]: page([cabin]),
       [clientsUrl]: page([client(ridge)]),
       "POST /api/jobs": { status: 201, body: created },
-      // The job page lists the job's quotes.
+      // The job page lists the job's quotes and their payments.
       [`GET /api/jobs/${created.id}/quotes`]: { body: { items: [] } },
+      [`GET /api/jobs/${created.id}/payments`]: { body: { items: [] } },
     });
     const router = renderAt("/jobs");
     fireEvent.click(await screen.findByRole("button", { name: "New job" }));

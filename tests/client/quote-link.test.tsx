@@ -1,4 +1,4 @@
-import { cleanup, fireEvent, screen, waitFor, within } from "@testing-library/react";
+import { act, cleanup, fireEvent, screen, waitFor, within } from "@testing-library/react";
 import { afterEach, beforeAll, describe, expect, it, vi } from "vitest";
 import { CAUTIONS } from "../../shared/engine/cautions";
 import { CSRF_HEADER } from "../../shared/http";
@@ -26,7 +26,7 @@ const HOSTILE = "<img src=x onerror=alert(1)>";
 const EXTRA_CAUTION = "Pump motor inrush: check the fuse's time-current curve against the pump's starting current.";
 
 // Money: subtotal 868.43 + 25.29 + 526.50 = 1420.22; discount 50.00; tax 8.25 % of 1370.22 = 113.04; total 1483.26; deposit 30 % = 444.98.
-function quoteFixture(overrides: { company?: Partial<PublicQuote["snapshot"]["company"]>; clientName?: string } = {}): PublicQuote {
+function quoteFixture(overrides: { company?: Partial<PublicQuote["snapshot"]["company"]>; clientName?: string; deposit?: Partial<PublicQuote["deposit"]> } = {}): PublicQuote {
   return PublicQuoteSchema.parse({
     state: "open",
     status: "viewed",
@@ -34,6 +34,8 @@ function quoteFixture(overrides: { company?: Partial<PublicQuote["snapshot"]["co
     acceptedName: null,
     acceptedAt: null,
     declinedAt: null,
+    // An open quote's deposit is due (on acceptance); the page offers it only once accepted.
+    deposit: { state: "due", dueMinor: 44498, currency: "USD", online: true, paidMinor: null, paidAt: null, receiptNumber: null, ...overrides.deposit },
     snapshot: {
       company: {
         name: "Kestrel Bay DC Works",
@@ -168,6 +170,9 @@ describe("the client's quote page", { timeout: 20_000 }, () => {
     expect(cautions.textContent).toContain("Battery banks can deliver thousands of amperes into a fault");
 
     expect(screen.getByRole("region", { name: "Terms" }).textContent).toContain("Balance due on completion.");
+    // Not accepted yet: the deposit is only the line in the totals.
+    expect(screen.queryByRole("region", { name: "Deposit due" })).toBeNull();
+    expect(screen.queryByRole("button", { name: "Pay deposit" })).toBeNull();
     expect(api.calls.map((c) => `${c.method} ${c.url}`)).toEqual([GET]);
   });
 
@@ -242,8 +247,13 @@ describe("accepting", { timeout: 20_000 }, () => {
     const heading = await screen.findByRole("heading", { level: 2, name: `Accepted by Mara Lindqvist on ${dateOf("2026-03-14T16:30:00.000Z")}` });
     expect(document.activeElement).toBe(heading);
     expect(heading.closest("section")?.textContent).toContain(
-      "Kestrel Bay DC Works will be in touch about the deposit of $444.98",
+      "Pay the deposit of $444.98 below, and Kestrel Bay DC Works will be in touch to arrange the work.",
     );
+    // The answer carries the deposit: its panel is there at once, with no reload.
+    const deposit = screen.getByRole("region", { name: "Deposit due" });
+    expect(deposit.textContent).toContain("$444.98");
+    expect(within(deposit).getByRole("button", { name: "Pay deposit" })).toBeTruthy();
+    expect(api.callsTo(GET)).toHaveLength(1);
     expect(screen.queryByRole("button", { name: "Accept quote" })).toBeNull();
     expect(screen.queryByRole("button", { name: "Decline quote" })).toBeNull();
     expect(api.callsTo(ACCEPT).map((c) => c.body)).toEqual([{ name: "Mara Lindqvist", agree: true }]);
@@ -362,5 +372,264 @@ describe("a link that no longer works", { timeout: 20_000 }, () => {
     renderAt(`/q/${TOKEN}`);
     expect(await screen.findByRole("heading", { level: 2, name: `Contact ${HOSTILE}` }, FIRST_PAINT)).toBeTruthy();
     expect(document.querySelectorAll("img")).toHaveLength(0);
+  });
+});
+
+describe("the deposit", { timeout: 30_000 }, () => {
+  const DEPOSIT = `POST /api/quote-links/${TOKEN}/deposit`;
+  const CHECKOUT_URL = "https://checkout.stripe.com/c/pay/cs_test_a1B2c3D4e5F6g7H8#fidkdWxOYHwnPyd1blpxYHZxWjA0";
+  const PAID_AT = "2026-03-14T17:05:00.000Z";
+  const accepted = (deposit: Partial<PublicQuote["deposit"]> = {}, extra: Partial<PublicQuote> = {}): PublicQuote => ({
+    ...quoteFixture({ deposit }),
+    state: "accepted",
+    status: "accepted",
+    acceptedName: "Mara Lindqvist",
+    acceptedAt: "2026-03-14T16:30:00.000Z",
+    ...extra,
+  });
+  const paid = () => accepted({ state: "paid", paidMinor: 44498, paidAt: PAID_AT, receiptNumber: "R-2026-0007" }, { state: "deposit paid", status: "deposit paid" });
+
+  /** window.location.assign, which the page calls with the payment page's address. */
+  function stubAssign() {
+    const assign = vi.fn();
+    vi.stubGlobal("location", { ...window.location, assign });
+    return assign;
+  }
+
+  it("offers the deposit of an accepted quote and goes to the payment page, busy until it is known", async () => {
+    const assign = stubAssign();
+    const api = stubApi({ [GET]: { body: accepted() }, [DEPOSIT]: { body: { url: CHECKOUT_URL } } });
+    // Hold the POST until the test has seen the button busy.
+    const stubbed = globalThis.fetch;
+    let release: () => void = () => {};
+    const gate = new Promise<void>((resolve) => (release = resolve));
+    vi.stubGlobal("fetch", async (input: RequestInfo | URL, init?: RequestInit) => {
+      if (init?.method === "POST") await gate;
+      return stubbed(input, init);
+    });
+    renderAt(`/q/${TOKEN}`);
+    await openQuote();
+
+    const panel = screen.getByRole("region", { name: "Deposit due" });
+    expect(panel.textContent).toContain("$444.98");
+    fireEvent.click(within(panel).getByRole("button", { name: "Pay deposit" }));
+
+    const busy = await within(panel).findByRole("button", { name: "Opening the payment page…" });
+    expect((busy as HTMLButtonElement).disabled).toBe(true);
+    expect(busy.getAttribute("aria-busy")).toBe("true");
+    expect(assign).not.toHaveBeenCalled();
+
+    release();
+    await waitFor(() => expect(assign).toHaveBeenCalledWith(CHECKOUT_URL));
+    expect(assign).toHaveBeenCalledTimes(1);
+    expect(api.callsTo(DEPOSIT)).toHaveLength(1);
+    expect(api.callsTo(DEPOSIT)[0]!.body).toBeUndefined();
+    expect(api.callsTo(DEPOSIT)[0]!.headers.get(CSRF_HEADER)).toBe("1");
+    // The browser is on its way: the button stays busy rather than inviting a second payment.
+    expect(within(panel).getByRole("button", { name: "Opening the payment page…" })).toBeTruthy();
+    expect(api.unexpected).toEqual([]);
+  });
+
+  it("shows the payment service's failure in an alert, and the button works again", async () => {
+    const assign = stubAssign();
+    const message = "We could not reach the payment service, and nothing was charged. Please try again in a few minutes.";
+    const api = stubApi({ [GET]: { body: accepted() }, [DEPOSIT]: apiError(502, "payment_failed", message) });
+    renderAt(`/q/${TOKEN}`);
+    await openQuote();
+
+    fireEvent.click(screen.getByRole("button", { name: "Pay deposit" }));
+    const alert = await within(screen.getByRole("region", { name: "Deposit due" })).findByRole("alert");
+    expect(alert.textContent).toBe(`✕${message}`);
+    const button = screen.getByRole("button", { name: "Pay deposit" }) as HTMLButtonElement;
+    expect(button.disabled).toBe(false);
+    expect(button.getAttribute("aria-busy")).toBe("false");
+    expect(assign).not.toHaveBeenCalled();
+    expect(api.callsTo(DEPOSIT)).toHaveLength(1);
+  });
+
+  it("refuses to follow an address that is not a web page", async () => {
+    const assign = stubAssign();
+    stubApi({ [GET]: { body: accepted() }, [DEPOSIT]: { body: { url: "javascript:alert(1)" } } });
+    renderAt(`/q/${TOKEN}`);
+    await openQuote();
+    fireEvent.click(screen.getByRole("button", { name: "Pay deposit" }));
+    expect((await screen.findByRole("alert")).textContent).toContain("The payment page's address was not understood");
+    expect(assign).not.toHaveBeenCalled();
+  });
+
+  it("waits for the confirmation when the server says the payment is already being processed", async () => {
+    const assign = stubAssign();
+    const api = stubApi({
+      [GET]: { body: accepted() },
+      [DEPOSIT]: apiError(409, "conflict", "Your payment was received and is being confirmed; this page will show it in a moment", { state: "processing" }),
+    });
+    renderAt(`/q/${TOKEN}`);
+    await openQuote();
+    fireEvent.click(screen.getByRole("button", { name: "Pay deposit" }));
+    expect(await screen.findByRole("progressbar", { name: "Confirming your payment" })).toBeTruthy();
+    expect(screen.getByRole("heading", { level: 2, name: "Confirming your payment…" })).toBeTruthy();
+    expect(screen.queryByRole("button", { name: "Pay deposit" })).toBeNull();
+    expect(screen.queryByRole("alert")).toBeNull();
+    expect(assign).not.toHaveBeenCalled();
+    // The conflict sends the page back to the server for the quote's state.
+    await waitFor(() => expect(api.callsTo(GET).length).toBeGreaterThanOrEqual(2));
+  });
+
+  it("says nothing was charged when the client comes back without paying, and offers the button again", async () => {
+    const api = stubApi({ [GET]: { body: accepted() } });
+    renderAt(`/q/${TOKEN}?deposit=canceled`);
+    await openQuote();
+    const panel = screen.getByRole("region", { name: "Deposit due" });
+    expect(within(panel).getByRole("status").textContent).toBe("Payment canceled — nothing was charged. You can pay the deposit whenever you are ready.");
+    expect(within(panel).getByRole("button", { name: "Pay deposit" })).toBeTruthy();
+    expect(screen.queryByRole("progressbar")).toBeNull();
+    await waitFor(() => expect(document.activeElement).toBe(within(panel).getByRole("heading", { level: 2, name: "Deposit due" })));
+    expect(api.callsTo(DEPOSIT)).toHaveLength(0);
+  });
+
+  it("confirms the payment after the client comes back, asking again every 2 s until the quote says paid", async () => {
+    vi.useFakeTimers({ shouldAdvanceTime: true });
+    try {
+      let reads = 0;
+      const api = stubApi({ [GET]: () => (++reads < 3 ? { body: accepted() } : { body: paid() }) });
+      renderAt(`/q/${TOKEN}?deposit=returned&session_id=cs_test_a1B2c3D4e5F6g7H8`);
+      await openQuote();
+
+      expect(screen.getByRole("progressbar", { name: "Confirming your payment" })).toBeTruthy();
+      expect(screen.getByRole("region", { name: "Confirming your payment…" }).textContent).toContain("$444.98");
+      expect(screen.queryByRole("button", { name: "Pay deposit" })).toBeNull();
+      expect(reads).toBe(1);
+
+      await act(async () => {
+        await vi.advanceTimersByTimeAsync(2_000);
+      });
+      expect(reads).toBe(2);
+      expect(screen.getByRole("progressbar", { name: "Confirming your payment" })).toBeTruthy();
+
+      // The third read answers paid.
+      await act(async () => {
+        await vi.advanceTimersByTimeAsync(2_000);
+      });
+      const heading = await screen.findByRole("heading", { level: 2, name: "Deposit paid — thank you" });
+      expect(screen.queryByRole("progressbar")).toBeNull();
+      expect(reads).toBe(3);
+      await waitFor(() => expect(document.activeElement).toBe(heading));
+
+      // Paid: no more asking.
+      await act(async () => {
+        await vi.advanceTimersByTimeAsync(10_000);
+      });
+      expect(api.callsTo(GET)).toHaveLength(3);
+    } finally {
+      vi.useRealTimers();
+    }
+  });
+
+  it("keeps the quote on screen and keeps asking when one read fails while the payment is confirmed", async () => {
+    vi.useFakeTimers({ shouldAdvanceTime: true });
+    try {
+      let reads = 0;
+      stubApi({ [GET]: () => (++reads === 2 ? "network-error" : reads < 3 ? { body: accepted() } : { body: paid() }) });
+      renderAt(`/q/${TOKEN}?deposit=returned&session_id=cs_test_a1B2c3D4e5F6g7H8`);
+      await openQuote();
+      await act(async () => {
+        await vi.advanceTimersByTimeAsync(2_000);
+      });
+      expect(reads).toBe(2);
+      expect(screen.getByRole("heading", { level: 1, name: "Quote Q-2026-0042 R2" })).toBeTruthy();
+      expect(screen.getByRole("progressbar", { name: "Confirming your payment" })).toBeTruthy();
+      expect(screen.queryByText(/The quote could not be opened/)).toBeNull();
+      await act(async () => {
+        await vi.advanceTimersByTimeAsync(2_000);
+      });
+      expect(await screen.findByRole("heading", { level: 2, name: "Deposit paid — thank you" })).toBeTruthy();
+    } finally {
+      vi.useRealTimers();
+    }
+  });
+
+  it("stops asking after a minute and says the receipt will follow by e-mail", async () => {
+    // Fake clocks from the start, moving with real time so the screen's first paint needs no help.
+    vi.useFakeTimers({ shouldAdvanceTime: true });
+    try {
+      const api = stubApi({ [GET]: { body: accepted() } });
+      renderAt(`/q/${TOKEN}?deposit=returned&session_id=cs_test_a1B2c3D4e5F6g7H8`);
+      await openQuote();
+      expect(screen.getByRole("progressbar", { name: "Confirming your payment" })).toBeTruthy();
+
+      await act(async () => {
+        await vi.advanceTimersByTimeAsync(59_000);
+      });
+      expect(screen.getByRole("progressbar", { name: "Confirming your payment" })).toBeTruthy();
+      const readsInAMinute = api.callsTo(GET).length;
+      // One read on opening, then one every 2 s.
+      expect(readsInAMinute).toBeGreaterThanOrEqual(25);
+
+      await act(async () => {
+        await vi.advanceTimersByTimeAsync(2_000);
+      });
+      expect(screen.queryByRole("progressbar")).toBeNull();
+      expect(screen.getByRole("status").textContent).toBe("Your payment is being confirmed. You will receive a receipt by e-mail shortly.");
+      expect(screen.queryByRole("button", { name: "Pay deposit" })).toBeNull();
+      const readsAtTheEnd = api.callsTo(GET).length;
+      await act(async () => {
+        await vi.advanceTimersByTimeAsync(10_000);
+      });
+      expect(api.callsTo(GET)).toHaveLength(readsAtTheEnd);
+    } finally {
+      vi.useRealTimers();
+    }
+  });
+
+  it("shows the paid deposit with its receipt, to download or open", async () => {
+    stubApi({ [GET]: { body: paid() } });
+    renderAt(`/q/${TOKEN}`);
+    await openQuote();
+    const panel = screen.getByRole("region", { name: "Deposit paid — thank you" });
+    expect(panel.textContent).toContain("$444.98");
+    expect(panel.textContent).toContain(dateOf(PAID_AT));
+    expect(panel.textContent).toContain("R-2026-0007");
+    const download = within(panel).getByRole("link", { name: "Download receipt (PDF)" });
+    expect(download.getAttribute("href")).toBe(`/api/quote-links/${TOKEN}/receipt.pdf?download=1`);
+    const open = within(panel).getByRole("link", { name: "Open receipt" });
+    expect(open.getAttribute("href")).toBe(`/api/quote-links/${TOKEN}/receipt.pdf`);
+    expect(open.getAttribute("target")).toBe("_blank");
+    expect(screen.queryByRole("button", { name: "Pay deposit" })).toBeNull();
+    expect(screen.getByText("Accepted, deposit paid")).toBeTruthy();
+    // Opened later, not just paid: the focus stays where the page starts.
+    expect(document.activeElement).not.toBe(within(panel).getByRole("heading", { level: 2 }));
+  });
+
+  it("asks the client to contact the company when the deposit cannot be paid online", async () => {
+    const api = stubApi({ [GET]: { body: accepted({ online: false }) } });
+    renderAt(`/q/${TOKEN}`);
+    await openQuote();
+    const panel = screen.getByRole("region", { name: "Deposit due" });
+    expect(panel.textContent).toContain("$444.98");
+    expect(panel.textContent).toContain("Please contact Kestrel Bay DC Works to pay it");
+    expect(within(panel).getByRole("link", { name: "office@kestrel.example" }).getAttribute("href")).toBe("mailto:office@kestrel.example");
+    expect(within(panel).getByRole("link", { name: "+1 (555) 010-2244" }).getAttribute("href")).toBe("tel:+15550102244");
+    expect(screen.queryByRole("button", { name: "Pay deposit" })).toBeNull();
+    expect(api.callsTo(DEPOSIT)).toHaveLength(0);
+  });
+
+  it.each([
+    { state: "review" as const, heading: "Your payment is being checked", text: "We received a payment that the contractor needs to check; they will be in touch." },
+    { state: "refunded" as const, heading: "Your deposit was refunded", text: "The deposit of $444.98 paid on" },
+  ])("shows a $state deposit in words, with no button", async ({ state, heading, text }) => {
+    stubApi({ [GET]: { body: accepted({ state, paidMinor: state === "refunded" ? 44498 : null, paidAt: state === "refunded" ? PAID_AT : null }) } });
+    renderAt(`/q/${TOKEN}`);
+    await openQuote();
+    expect(screen.getByRole("region", { name: heading }).textContent).toContain(text);
+    expect(screen.queryByRole("button", { name: "Pay deposit" })).toBeNull();
+    expect(screen.queryByRole("region", { name: "Deposit paid — thank you" })).toBeNull();
+  });
+
+  it("says nothing about a deposit when none is due", async () => {
+    stubApi({ [GET]: { body: accepted({ state: "none", dueMinor: 0 }) } });
+    renderAt(`/q/${TOKEN}`);
+    await openQuote();
+    expect(screen.queryByRole("region", { name: /Deposit|deposit|payment/ })).toBeNull();
+    expect(screen.queryByRole("button", { name: "Pay deposit" })).toBeNull();
   });
 });

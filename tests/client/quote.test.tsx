@@ -1,6 +1,7 @@
 import { cleanup, configure, fireEvent, screen, waitFor, within } from "@testing-library/react";
 import { afterEach, describe, expect, it, vi } from "vitest";
 import type { QuoteDetail } from "../../shared/schemas/estimates";
+import type { Payment } from "../../shared/schemas/payments";
 import { apiError, healthUp, sessionAs, stubApi } from "./api-stub";
 import { renderAt } from "./render-app";
 
@@ -47,6 +48,7 @@ function quote(extra: Partial<QuoteDetail> = {}): QuoteDetail {
     acceptedIp: null,
     acceptedUserAgent: null,
     events: [{ type: "created", at: "2026-12-01T09:00:00.000Z", actor: "Ada Quill", detail: null }],
+    payments: [],
     snapshot: {
       company: { name: "Kestrel Bay DC Works", licenceNumber: "EC-20417", contactEmail: "office@kestrel.example", phone: null, address: null, logo: null },
       client: { name: "Ridge Cabins Ltd", email: "office@ridge.example", phone: null, billingAddress: null },
@@ -271,5 +273,232 @@ describe("the Quote screen", () => {
     renderAt(`/jobs/${JOB_ID}/quotes/${QUOTE_ID}`);
     expect(await screen.findByRole("heading", { name: "Quote not found" })).toBeTruthy();
     expect(screen.getByRole("link", { name: "Back to the job" }).getAttribute("href")).toBe(`/jobs/${JOB_ID}`);
+  });
+});
+
+const PAYMENT_ID = "9b1c2d3e-4f5a-4b6c-8d7e-000000000003";
+const FLAGGED_ID = "9b1c2d3e-4f5a-4b6c-8d7e-000000000004";
+const REFUNDS = `POST /api/payments/${PAYMENT_ID}/refunds`;
+
+function payment(extra: Partial<Payment> = {}): Payment {
+  return {
+    id: PAYMENT_ID,
+    quoteId: QUOTE_ID,
+    jobId: JOB_ID,
+    quoteLabel: "Q-2026-0042 R2",
+    receiptNumber: "R-2026-0007",
+    status: "paid",
+    mismatchReason: null,
+    amountMinor: 55_534,
+    currency: "USD",
+    expectedAmountMinor: 55_534,
+    expectedCurrency: "USD",
+    refundedMinor: 0,
+    paidAt: "2026-12-05T10:15:00.000Z",
+    payerName: "Morgan Ridge",
+    payerEmail: "morgan@ridge.example",
+    receiptSentAt: "2026-12-05T10:16:00.000Z",
+    receiptError: null,
+    stripePaymentIntentId: "pi_3PqR5sT6uV7wX8yZ",
+    refunds: [],
+    ...extra,
+  };
+}
+
+/** Partly refunded: $100.00 of $555.34 back, $455.34 left. */
+const partlyRefunded = () =>
+  payment({
+    status: "partially refunded",
+    refundedMinor: 10_000,
+    refunds: [{ id: "re_1", amountMinor: 10_000, currency: "USD", reason: "requested_by_customer", status: "succeeded", createdAt: "2026-12-06T08:00:00.000Z", createdBy: "Ada Quill" }],
+  });
+const flagged = () =>
+  payment({
+    id: FLAGGED_ID,
+    receiptNumber: "R-2026-0008",
+    status: "mismatch",
+    mismatchReason: "Paid after the deposit had already been received",
+    amountMinor: 55_534,
+    receiptSentAt: null,
+    receiptError: "Mailbox full (552)",
+    paidAt: "2026-12-07T11:00:00.000Z",
+  });
+
+const acceptedQuote = (extra: Partial<QuoteDetail> = {}) =>
+  quote({
+    status: "deposit paid",
+    sentAt: "2026-12-02T10:00:00.000Z",
+    acceptedAt: "2026-12-04T16:20:00.000Z",
+    acceptedName: "Morgan Ridge",
+    linkActive: true,
+    events: [
+      ...quote().events,
+      { type: "accepted", at: "2026-12-04T16:20:00.000Z", actor: "Morgan Ridge", detail: null },
+      { type: "deposit_paid", at: "2026-12-05T10:15:00.000Z", actor: null, detail: "R-2026-0007" },
+      { type: "refunded", at: "2026-12-06T08:00:00.000Z", actor: "Ada Quill", detail: null },
+      { type: "payment_flagged", at: "2026-12-07T11:00:00.000Z", actor: null, detail: "Paid after the deposit had already been received" },
+    ],
+    payments: [partlyRefunded(), flagged()],
+    ...extra,
+  });
+
+/** The text of everything an input's aria-describedby points at (its error and hint). */
+function descriptionOf(input: HTMLElement): string {
+  const ids = input.getAttribute("aria-describedby")?.split(" ") ?? [];
+  return ids.map((id) => document.getElementById(id)?.textContent ?? "").join(" ");
+}
+
+describe("the quote's payments", () => {
+  it("lists each payment with its receipt, status, payer, refunds and receipt e-mail, and the history names them", async () => {
+    const api = stubApi({ ...base("owner"), [QUOTE]: { body: acceptedQuote() } });
+    renderAt(`/jobs/${JOB_ID}/quotes/${QUOTE_ID}`);
+    const section = await screen.findByRole("region", { name: "Payments" });
+    const items = within(within(section).getByRole("list", { name: "Payments" })).getAllByRole("listitem", { name: /^Receipt / });
+    expect(items).toHaveLength(2);
+
+    const first = within(section).getByRole("listitem", { name: "Receipt R-2026-0007" });
+    expect(first.textContent).toContain("Partly refunded");
+    expect(first.textContent).toContain("$555.34");
+    expect(first.textContent).toContain("by Morgan Ridge (morgan@ridge.example)");
+    expect(first.textContent).toContain("Refunded $100.00 of $555.34");
+    const refunds = within(first).getByRole("list", { name: "Refunds of R-2026-0007" });
+    expect(refunds.textContent).toContain("$100.00");
+    expect(refunds.textContent).toContain("by Ada Quill");
+    expect(refunds.textContent).toContain("Requested by the client");
+    expect(first.textContent).toContain("Receipt e-mailed to the client");
+    expect(within(first).getByRole("link", { name: "Receipt PDF" }).getAttribute("href")).toBe(`/api/payments/${PAYMENT_ID}/receipt.pdf`);
+
+    const second = within(section).getByRole("listitem", { name: "Receipt R-2026-0008" });
+    expect(second.textContent).toContain("Check this payment");
+    expect(second.textContent).toContain("Paid after the deposit had already been received");
+    expect(second.textContent).toContain("The receipt e-mail failed: Mailbox full (552)");
+    expect(within(second).getByRole("link", { name: "Receipt PDF" }).getAttribute("href")).toBe(`/api/payments/${FLAGGED_ID}/receipt.pdf`);
+
+    // The Owner may refund whatever is left of either.
+    expect(within(first).getByRole("button", { name: "Refund" })).toBeTruthy();
+    expect(within(second).getByRole("button", { name: "Refund" })).toBeTruthy();
+
+    const history = screen.getByRole("list", { name: "History" });
+    expect(history.textContent).toContain("Deposit paid");
+    expect(history.textContent).toContain("Refunded");
+    expect(history.textContent).toContain("Payment flagged");
+    expect(history.textContent).not.toContain("payment_flagged");
+    expect(api.unexpected).toEqual([]);
+  });
+
+  it("says there are no payments yet, and where an accepted quote's client pays", async () => {
+    stubApi({ ...base("owner"), [QUOTE]: { body: quote({ status: "accepted", sentAt: "2026-12-02T10:00:00.000Z", acceptedAt: "2026-12-04T16:20:00.000Z", acceptedName: "Morgan Ridge" }) } });
+    renderAt(`/jobs/${JOB_ID}/quotes/${QUOTE_ID}`);
+    const section = await screen.findByRole("region", { name: "Payments" });
+    expect(section.textContent).toBe("PaymentsNo payments yet. The client can pay the deposit from their quote page.");
+    expect(within(section).queryByRole("button", { name: "Refund" })).toBeNull();
+  });
+
+  it("says only that there are no payments on a quote that is not accepted", async () => {
+    stubApi({ ...base("owner"), [QUOTE]: { body: quote() } });
+    renderAt(`/jobs/${JOB_ID}/quotes/${QUOTE_ID}`);
+    const section = await screen.findByRole("region", { name: "Payments" });
+    expect(section.textContent).toBe("PaymentsNo payments yet.");
+  });
+
+  it("checks the refund's amount before sending anything", async () => {
+    const api = stubApi({ ...base("owner"), [QUOTE]: { body: acceptedQuote() }, [REFUNDS]: { status: 201, body: partlyRefunded() } });
+    renderAt(`/jobs/${JOB_ID}/quotes/${QUOTE_ID}`);
+    const first = await screen.findByRole("listitem", { name: "Receipt R-2026-0007" });
+    fireEvent.click(within(first).getByRole("button", { name: "Refund" }));
+    const dialog = screen.getByRole("dialog", { name: "Refund R-2026-0007" });
+    const amount = within(dialog).getByLabelText("Amount to refund") as HTMLInputElement;
+    // What is left, to start with.
+    expect(amount.value).toBe("455.34");
+    expect(within(dialog).getByText("Refund $455.34 to the client?")).toBeTruthy();
+    expect(within(dialog).getAllByRole("option").map((o) => o.textContent)).toEqual(["Requested by the client", "Paid twice", "Suspected fraud"]);
+
+    fireEvent.change(amount, { target: { value: "455.35" } });
+    expect(within(dialog).getByText("Enter an amount to refund.")).toBeTruthy();
+    fireEvent.click(within(dialog).getByRole("button", { name: "Refund" }));
+    await waitFor(() => expect(amount.getAttribute("aria-invalid")).toBe("true"));
+    expect(descriptionOf(amount)).toContain("at most $455.34 is left to refund");
+
+    fireEvent.change(amount, { target: { value: "0.00" } });
+    fireEvent.click(within(dialog).getByRole("button", { name: "Refund" }));
+    await waitFor(() => expect(descriptionOf(amount)).toContain("the amount must be more than zero"));
+
+    fireEvent.change(amount, { target: { value: "12,50" } });
+    fireEvent.click(within(dialog).getByRole("button", { name: "Refund" }));
+    await waitFor(() => expect(descriptionOf(amount)).toContain("enter the amount as a number, such as 455.34"));
+
+    expect(api.callsTo(REFUNDS)).toHaveLength(0);
+    fireEvent.click(within(dialog).getByRole("button", { name: "Cancel" }));
+    expect(screen.queryByRole("dialog")).toBeNull();
+  });
+
+  it("refunds the amount typed, in cents, with the reason chosen, then reads the quote again", async () => {
+    let refunded = false;
+    const after = payment({
+      status: "partially refunded",
+      refundedMinor: 22_050,
+      refunds: [...partlyRefunded().refunds, { id: "re_2", amountMinor: 12_050, currency: "USD", reason: "duplicate", status: "succeeded", createdAt: "2026-12-08T09:00:00.000Z", createdBy: "Ada Quill" }],
+    });
+    const api = stubApi({
+      ...base("owner"),
+      [QUOTE]: () => ({ body: refunded ? acceptedQuote({ payments: [after, flagged()] }) : acceptedQuote() }),
+      [REFUNDS]: () => {
+        refunded = true;
+        return { status: 201, body: after };
+      },
+    });
+    renderAt(`/jobs/${JOB_ID}/quotes/${QUOTE_ID}`);
+    const first = await screen.findByRole("listitem", { name: "Receipt R-2026-0007" });
+    fireEvent.click(within(first).getByRole("button", { name: "Refund" }));
+    const dialog = screen.getByRole("dialog", { name: "Refund R-2026-0007" });
+    fireEvent.change(within(dialog).getByLabelText("Amount to refund"), { target: { value: " $120.5 " } });
+    fireEvent.change(within(dialog).getByLabelText("Reason"), { target: { value: "duplicate" } });
+    expect(within(dialog).getByText("Refund $120.50 to the client?")).toBeTruthy();
+    fireEvent.click(within(dialog).getByRole("button", { name: "Refund" }));
+
+    await waitFor(() => expect(screen.queryByRole("dialog")).toBeNull());
+    expect(api.callsTo(REFUNDS).map((c) => c.body)).toEqual([{ amountMinor: 12_050, reason: "duplicate" }]);
+    expect(await screen.findByRole("status", { name: "$120.50 refunded to the client on R-2026-0007." })).toBeTruthy();
+    await waitFor(() => expect(api.callsTo(QUOTE)).toHaveLength(2));
+    await waitFor(() => expect(screen.getByRole("listitem", { name: "Receipt R-2026-0007" }).textContent).toContain("Refunded $220.50 of $555.34"));
+    expect(screen.getByRole("list", { name: "Refunds of R-2026-0007" }).textContent).toContain("Paid twice");
+  });
+
+  it("shows the server's refusal in the dialog: beside the amount, or as an alert", async () => {
+    let reply = apiError(400, "invalid_input", "amountMinor: at most 45534 is left to refund", { fields: { amountMinor: "at most 45534 is left to refund" } });
+    const api = stubApi({ ...base("owner"), [QUOTE]: { body: acceptedQuote() }, [REFUNDS]: () => reply });
+    renderAt(`/jobs/${JOB_ID}/quotes/${QUOTE_ID}`);
+    const first = await screen.findByRole("listitem", { name: "Receipt R-2026-0007" });
+    fireEvent.click(within(first).getByRole("button", { name: "Refund" }));
+    const dialog = screen.getByRole("dialog", { name: "Refund R-2026-0007" });
+    const amount = within(dialog).getByLabelText("Amount to refund");
+    fireEvent.click(within(dialog).getByRole("button", { name: "Refund" }));
+    await waitFor(() => expect(amount.getAttribute("aria-invalid")).toBe("true"));
+    expect(descriptionOf(amount)).toContain("at most 45534 is left to refund");
+    expect(within(dialog).queryByRole("alert")).toBeNull();
+    expect(api.callsTo(REFUNDS).map((c) => c.body)).toEqual([{ amountMinor: 45_534, reason: "requested_by_customer" }]);
+
+    reply = apiError(502, "payment_failed", "Stripe refused the refund: The charge has been disputed.");
+    fireEvent.click(within(dialog).getByRole("button", { name: "Refund" }));
+    expect((await within(dialog).findByRole("alert")).textContent).toContain("No refund was made. Stripe refused the refund: The charge has been disputed.");
+    expect(screen.getByRole("dialog", { name: "Refund R-2026-0007" })).toBeTruthy();
+    expect(api.callsTo(REFUNDS)).toHaveLength(2);
+  });
+
+  it.each(["estimator", "installer"] as const)("lists the payments for an %s without a Refund button", async (role) => {
+    stubApi({ ...base(role), [QUOTE]: { body: acceptedQuote() } });
+    renderAt(`/jobs/${JOB_ID}/quotes/${QUOTE_ID}`);
+    const section = await screen.findByRole("region", { name: "Payments" });
+    expect(within(section).getByRole("listitem", { name: "Receipt R-2026-0007" })).toBeTruthy();
+    expect(within(section).getByRole("listitem", { name: "Receipt R-2026-0008" })).toBeTruthy();
+    expect(within(section).queryByRole("button", { name: "Refund" })).toBeNull();
+  });
+
+  it("offers no refund of a payment refunded in full", async () => {
+    stubApi({ ...base("owner"), [QUOTE]: { body: acceptedQuote({ payments: [payment({ status: "refunded", refundedMinor: 55_534 })] }) } });
+    renderAt(`/jobs/${JOB_ID}/quotes/${QUOTE_ID}`);
+    const item = await screen.findByRole("listitem", { name: "Receipt R-2026-0007" });
+    expect(item.textContent).toContain("Refunded");
+    expect(within(item).queryByRole("button", { name: "Refund" })).toBeNull();
   });
 });

@@ -23,7 +23,9 @@ function monthName(month: string): string {
 }
 
 function isEmpty(d: Dashboard) {
-  return d.byStatus.every((s) => s.count === 0) && d.awaiting.length === 0 && d.activity.length === 0 && d.overLimitSystems.length === 0;
+  const { receivedThisMonth, outstanding, flagged } = d.deposits;
+  const noDeposits = receivedThisMonth.count === 0 && receivedThisMonth.refundedMinor === 0 && outstanding.count === 0 && flagged.length === 0;
+  return d.byStatus.every((s) => s.count === 0) && d.awaiting.length === 0 && d.activity.length === 0 && d.overLimitSystems.length === 0 && noDeposits;
 }
 
 function StatusTiles({ dashboard }: { dashboard: Dashboard }) {
@@ -43,6 +45,66 @@ function StatusTiles({ dashboard }: { dashboard: Dashboard }) {
         );
       })}
     </ul>
+  );
+}
+
+const tileClass = "space-y-1 rounded-lg border border-ink-100 bg-white p-3";
+const tileTitle = "text-sm font-medium text-ink-700";
+
+/** Deposits received this month (and refunded), deposits still owed on accepted quotes, and payments the Owner must check. */
+function Deposits({ dashboard }: { dashboard: Dashboard }) {
+  const { receivedThisMonth: received, outstanding, flagged } = dashboard.deposits;
+  const money = (minor: number) => formatMoney(minor, dashboard.currency);
+  const deposits = (n: number) => (n === 1 ? "deposit" : "deposits");
+  return (
+    <section aria-labelledby="deposits-heading" className="space-y-3">
+      <h2 id="deposits-heading" className={panelHeading}>
+        Deposits
+      </h2>
+      <ul aria-label="Deposits" className="grid gap-3 sm:grid-cols-2">
+        <li className={tileClass}>
+          <h3 className={tileTitle}>Deposits received this month</h3>
+          <p className="text-2xl font-semibold tabular-nums text-ink-900">
+            {received.count} <span className="sr-only">{deposits(received.count)}</span>
+          </p>
+          <p className="text-sm tabular-nums text-ink-600">{money(received.amountMinor)}</p>
+          {received.refundedMinor > 0 ? <p className="text-xs tabular-nums text-ink-500">{money(received.refundedMinor)} refunded</p> : null}
+        </li>
+        <li className={tileClass}>
+          <h3 className={tileTitle}>Deposits outstanding</h3>
+          <p className="text-2xl font-semibold tabular-nums text-ink-900">
+            {outstanding.count} <span className="sr-only">{deposits(outstanding.count)}</span>
+          </p>
+          <p className="text-sm tabular-nums text-ink-600">{money(outstanding.amountMinor)}</p>
+          <p className="text-xs text-ink-500">Accepted quotes waiting for their deposit</p>
+        </li>
+      </ul>
+      {flagged.length > 0 ? (
+        <div className="space-y-2">
+          <h3 id="flagged-heading" className="flex items-center gap-1.5 text-sm font-semibold text-over-700">
+            <span aria-hidden="true">!</span>
+            Payments to check
+          </h3>
+          <ul aria-labelledby="flagged-heading" className="divide-y divide-ink-100 rounded-lg border border-over-100 bg-white text-sm">
+            {flagged.map((p) => (
+              <li key={p.id} className="flex flex-wrap items-start justify-between gap-x-4 gap-y-1 px-3 py-2">
+                <div className="min-w-0">
+                  <Link to={paths.quote.getHref(p.jobId, p.quoteId)} className={linkClass}>
+                    {p.quoteLabel}
+                  </Link>
+                  <span className="text-xs text-ink-500"> · receipt {p.receiptNumber}</span>
+                  <p className="text-over-700">{p.mismatchReason ?? "This payment does not match the deposit that was due."}</p>
+                </div>
+                <div className="text-right">
+                  <p className="tabular-nums text-ink-900">{formatMoney(p.amountMinor, p.currency)}</p>
+                  <p className="text-xs text-ink-500">Paid {formatDay(p.paidAt)}</p>
+                </div>
+              </li>
+            ))}
+          </ul>
+        </div>
+      ) : null}
+    </section>
   );
 }
 
@@ -147,7 +209,7 @@ function OverLimit({ dashboard }: { dashboard: Dashboard }) {
   );
 }
 
-/** The dashboard: this month's quotes by status, what waits for an answer, what happened lately, and systems to fix. */
+/** The dashboard: this month's quotes by status, deposits in and owed, what waits for an answer, what happened lately, and systems to fix. */
 export function DashboardPage() {
   const { data, error, isPending, isFetching, refetch } = useDashboard();
   const header = <PageHeader title="Dashboard" description={data ? `What needs your attention. Figures for ${monthName(data.month)}.` : "What needs your attention today."} />;
@@ -187,6 +249,7 @@ export function DashboardPage() {
         <StatusTiles dashboard={data} />
         <StatusChart byStatus={data.byStatus} currency={data.currency} />
       </section>
+      <Deposits dashboard={data} />
       <div className="grid gap-6 lg:grid-cols-2">
         <Awaiting dashboard={data} />
         <Activity dashboard={data} />

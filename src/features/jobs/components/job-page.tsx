@@ -14,6 +14,7 @@ import { applyServerError } from "../../../lib/form-errors";
 import { cn } from "../../../utils/cn";
 import { formatDate } from "../../../utils/format-date";
 import { AttachmentsSection } from "../../attachments/components/attachments-section";
+import { JobPaymentsSection } from "../../payments/components/job-payments-section";
 import { JobQuotesSection } from "../../quotes/components/job-quotes-section";
 import { useDeleteJob } from "../api/delete-job";
 import { useJob } from "../api/get-job";
@@ -208,6 +209,7 @@ function JobView({ job, canWrite }: { job: JobDetail; canWrite: boolean }) {
       <AttachmentsSection jobId={job.id} attachments={job.attachments} canWrite={canWrite} />
 
       <JobQuotesSection jobId={job.id} />
+      <JobPaymentsSection jobId={job.id} />
 
       {editing ? (
         <Dialog size="md" closeButton title="Edit job details" onClose={() => setEditing(false)}>
@@ -223,7 +225,7 @@ function JobView({ job, canWrite }: { job: JobDetail; canWrite: boolean }) {
   );
 }
 
-/** The job page: details, systems, site photos and plans, quotes; "Job not found" for an unknown id. */
+/** The job page: details, systems, site photos and plans, quotes and their payments; "Job not found" for an unknown id. */
 export function JobPage({ jobId, canWrite }: { jobId: string; canWrite: boolean }) {
   const { data, error, isPending, isFetching, refetch } = useJob(jobId);
   if (isPending) return <p className="text-sm text-ink-500">Loading the job…</p>;

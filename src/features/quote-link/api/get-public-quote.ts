@@ -11,6 +11,9 @@ export const quoteLinkPath = (token: string) => `/quote-links/${encodeURICompone
 /** The PDF of the quote behind a link (same token, no session). */
 export const quoteLinkPdfHref = (token: string) => `/api${quoteLinkPath(token)}/pdf`;
 
+/** The deposit's receipt behind a link, once paid: opened in the browser, or downloaded. */
+export const quoteLinkReceiptHref = (token: string, download = false) => `/api${quoteLinkPath(token)}/receipt.pdf${download ? "?download=1" : ""}`;
+
 // No session: the token is the key. A link that no longer works answers 410 (404 when unknown)
 // with ClosedLinkDetails, read by closedLinkOf().
 export const getPublicQuote = (token: string) => apiRequest(quoteLinkPath(token), PublicQuoteSchema);

@@ -173,13 +173,25 @@ function DeclineForm({ token, quote, onCancel }: { token: string; quote: PublicQ
 
 // ---------------------------------------------------------------- decided
 
+/** The thanks under "Accepted by …": what happens next depends on the deposit (its own panel follows). */
+function thanksText(quote: PublicQuote): string {
+  const { company, totals, currency } = quote.snapshot;
+  const { deposit } = quote;
+  const due = formatMoney(totals.depositMinor, currency);
+  if (deposit.state === "paid") {
+    return `Thank you. The deposit of ${formatMoney(deposit.paidMinor ?? deposit.dueMinor, deposit.currency)} has been received, and ${company.name} will be in touch to arrange the work.`;
+  }
+  if (deposit.state === "due" && deposit.online) return `Thank you for accepting. Pay the deposit of ${due} below, and ${company.name} will be in touch to arrange the work.`;
+  if (deposit.state === "due") return `Thank you for accepting. ${company.name} will be in touch about the deposit of ${due} and to arrange the work.`;
+  return `Thank you for accepting. ${company.name} will be in touch to arrange the work.`;
+}
+
 function DecidedPanel({ quote, takeFocus }: { quote: PublicQuote; takeFocus: boolean }) {
   const headingRef = useRef<HTMLHeadingElement>(null);
   useEffect(() => {
     if (takeFocus) headingRef.current?.focus();
   }, [takeFocus]);
-  const { company, totals, currency } = quote.snapshot;
-  const deposit = formatMoney(totals.depositMinor, currency);
+  const { company } = quote.snapshot;
 
   if (quote.state === "declined") {
     return (
@@ -205,11 +217,7 @@ function DecidedPanel({ quote, takeFocus }: { quote: PublicQuote; takeFocus: boo
           {when}
         </span>
       </h2>
-      <p className="mt-2 text-sm text-ink-800">
-        {quote.state === "deposit paid"
-          ? `Thank you. The deposit of ${deposit} has been received, and ${company.name} will be in touch to arrange the work.`
-          : `Thank you for accepting. ${company.name} will be in touch about the deposit of ${deposit} and to arrange the work.`}
-      </p>
+      <p className="mt-2 text-sm text-ink-800">{thanksText(quote)}</p>
       <ContractorContact contactEmail={company.contactEmail} phone={company.phone} className="mt-2" />
     </section>
   );

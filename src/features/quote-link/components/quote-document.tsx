@@ -5,6 +5,7 @@ import { secondaryButtonClass } from "../../../components/ui/form";
 import { quoteLinkPdfHref } from "../api/get-public-quote";
 import { formatDay, logoSrc } from "../utils/format";
 import { ContractorContact } from "./contractor-contact";
+import { DepositPanel } from "./deposit-panel";
 import { PricedLines } from "./priced-lines";
 import { QuoteDecision } from "./quote-decision";
 import { VoltageDropSummary } from "./voltage-drop-summary";
@@ -16,7 +17,7 @@ const STATE_BADGE: Record<PublicQuote["state"], { text: string; className: strin
   declined: { text: "Declined", className: "border-ink-200 bg-ink-50 text-ink-700", mark: "–" },
 };
 
-/** The quote as the client reads and prints it, with the accept / decline actions at the end. */
+/** The quote as the client reads and prints it, with the accept / decline actions and then the deposit at the end. */
 export function QuoteDocument({ token, quote }: { token: string; quote: PublicQuote }) {
   const { snapshot } = quote;
   const { company, client, job } = snapshot;
@@ -106,6 +107,7 @@ export function QuoteDocument({ token, quote }: { token: string; quote: PublicQu
       </Section>
 
       <QuoteDecision token={token} quote={quote} />
+      <DepositPanel token={token} quote={quote} />
     </article>
   );
 }

@@ -20,10 +20,13 @@ export function QuoteLinkPage({ token }: { token: string }) {
   if (error) {
     const closed = closedLinkOf(error);
     if (closed) return <ClosedLinkPage closed={closed} />;
+  }
+  // A failed refetch (while a payment is being confirmed, say) keeps the quote already on screen.
+  if (!quote) {
     return (
       <QuoteLinkShell narrow>
         <h1 className="mb-4 text-xl font-semibold tracking-tight text-ink-900">Your quote</h1>
-        <LoadFailed message={`The quote could not be opened. ${error.message}`} retrying={isRefetching} onRetry={() => void refetch()} />
+        <LoadFailed message={`The quote could not be opened. ${error?.message ?? ""}`} retrying={isRefetching} onRetry={() => void refetch()} />
       </QuoteLinkShell>
     );
   }

@@ -1,7 +1,10 @@
 import type { QuoteDetail } from "../../../../shared/schemas/estimates";
 import { formatWhen, quoteEventLabel } from "../lib/format";
 
-/** The quote's history, oldest first: created, sent, opened, answered, links made and stopped. */
+/** Events that need someone to look: drawn with the alert's colour (their label says why). */
+const ALERT_EVENTS = new Set(["send_failed", "payment_flagged"]);
+
+/** The quote's history, oldest first: created, sent, opened, answered, links made and stopped, deposits paid and refunded. */
 export function QuoteEvents({ events }: { events: QuoteDetail["events"] }) {
   const ordered = [...events].sort((a, b) => a.at.localeCompare(b.at));
   return (
@@ -15,7 +18,7 @@ export function QuoteEvents({ events }: { events: QuoteDetail["events"] }) {
         <ol aria-label="History" className="relative space-y-3 border-l border-ink-200 pl-4 text-sm">
           {ordered.map((event, i) => (
             <li key={`${event.type}-${event.at}-${i}`} className="relative">
-              <span aria-hidden="true" className={`absolute -left-[21px] top-1.5 h-2.5 w-2.5 rounded-full border-2 border-white ${event.type === "send_failed" ? "bg-over-500" : "bg-copper-500"}`} />
+              <span aria-hidden="true" className={`absolute -left-[21px] top-1.5 h-2.5 w-2.5 rounded-full border-2 border-white ${ALERT_EVENTS.has(event.type) ? "bg-over-500" : "bg-copper-500"}`} />
               <p className="font-medium text-ink-900">{quoteEventLabel(event.type)}</p>
               <p className="text-xs text-ink-500">
                 <time dateTime={event.at}>{formatWhen(event.at)}</time>

@@ -9,6 +9,7 @@ import { dangerButtonClass, FormAlert, FormStatus, primaryButtonClass, secondary
 import { LoadFailed } from "../../../components/ui/load-failed";
 import { paths } from "../../../config/paths";
 import { ApiError } from "../../../lib/api-client";
+import { QuotePaymentsSection } from "../../payments/components/quote-payments-section";
 import { useCreateClientLink, useStopClientLink } from "../api/client-link";
 import { useQuote } from "../api/get-quote";
 import { cutListHref, formatDay, formatWhen, isAcceptedStatus, quotePdfHref } from "../lib/format";
@@ -56,7 +57,7 @@ function AcceptanceRecord({ quote }: { quote: QuoteDetail }) {
   );
 }
 
-function QuoteView({ quote, canWrite }: { quote: QuoteDetail; canWrite: boolean }) {
+function QuoteView({ quote, canWrite, canRefund }: { quote: QuoteDetail; canWrite: boolean; canRefund: boolean }) {
   const { snapshot } = quote;
   const currency = quote.currency;
   const [sending, setSending] = useState(false);
@@ -185,6 +186,7 @@ function QuoteView({ quote, canWrite }: { quote: QuoteDetail; canWrite: boolean 
         </div>
         <div className="space-y-6">
           <QuoteTotals totals={snapshot.totals} currency={currency} />
+          <QuotePaymentsSection quote={quote} canRefund={canRefund} />
           <CautionsPanel extra={snapshot.cautions} />
           <QuoteEvents events={quote.events} />
         </div>
@@ -217,12 +219,12 @@ export function QuoteNotFound({ jobId }: { jobId?: string }) {
 }
 
 /** The Quote screen: loading, not found, failed, or the quote. */
-export function QuotePage({ jobId, quoteId, canWrite }: { jobId: string; quoteId: string; canWrite: boolean }) {
+export function QuotePage({ jobId, quoteId, canWrite, canRefund }: { jobId: string; quoteId: string; canWrite: boolean; canRefund: boolean }) {
   const { data, error, isPending, isFetching, refetch } = useQuote(quoteId);
   if (isPending) return <p className="text-sm text-ink-500">Loading the quote…</p>;
   if (error) {
     if (error instanceof ApiError && error.status === 404) return <QuoteNotFound jobId={jobId} />;
     return <LoadFailed className="max-w-xl" message={`The quote could not be loaded. ${error.message}`} retrying={isFetching} onRetry={() => void refetch()} />;
   }
-  return <QuoteView quote={data} canWrite={canWrite} />;
+  return <QuoteView quote={data} canWrite={canWrite} canRefund={canRefund} />;
 }

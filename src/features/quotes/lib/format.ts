@@ -23,6 +23,8 @@ export const QUOTE_EVENT_LABELS: Record<string, string> = {
   link_revoked: "Client link stopped",
   link_issued: "New client link made",
   deposit_paid: "Deposit paid",
+  payment_flagged: "Payment flagged",
+  refunded: "Refunded",
 };
 
 /** An event type in words; an unknown one with its underscores as spaces. */
