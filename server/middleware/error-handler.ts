@@ -73,6 +73,11 @@ function toAppError(error: unknown): AppError {
   if (sqlState === "23505" || sqlState === "23503") {
     return new AppError("conflict", "Someone changed the same records at the same moment; reload and try again");
   }
+  // Deadlock or serialization failure: PostgreSQL rolled the transaction back; trying again works
+  // (Stripe retries a webhook answered 503 on its own).
+  if (sqlState === "40P01" || sqlState === "40001") {
+    return new AppError("service_unavailable", "The server was busy with the same records; nothing was saved — try again");
+  }
   if (sqlState === "23514" || sqlState === "23502") {
     return new AppError("invalid_input", "A value in the request is outside what can be stored");
   }

@@ -94,6 +94,9 @@ export async function publicDeposit(manager: EntityManager, quote: Quote, online
 
 // ---------------------------------------------------------------- the client's "Pay deposit"
 
+/** A flagged payment refunded in full: settled, it neither counts as the deposit nor blocks paying it. */
+const settledFlag = (p: Payment) => p.mismatchReason !== null && p.status === "refunded";
+
 function providerError(deps: PaymentDeps, error: unknown, what: string): AppError {
   deps.logger.warn({ err: error }, `Stripe: ${what} failed`);
   return new AppError("payment_failed", "We could not reach the payment service, and nothing was charged. Please try again in a few minutes.");
@@ -118,11 +121,14 @@ export async function startDepositCheckout(deps: PaymentDeps, token: string): Pr
       const who = quote.snapshot.company.contactEmail ?? quote.snapshot.company.phone ?? quote.snapshot.company.name;
       throw new AppError("service_unavailable", `Online payment is not set up for this company; please contact ${who} to pay the deposit`);
     }
-    if ((await tx.countBy(Payment, { quoteId: quote.id })) > 0) {
+    // A flagged payment blocks a new one until it is settled; refunded in full, it no longer counts.
+    const payments_ = await tx.findBy(Payment, { quoteId: quote.id });
+    if (payments_.some((p) => !settledFlag(p))) {
       throw new AppError("conflict", "A payment for this quote has been received and is being checked; the contractor will be in touch");
     }
 
     const latest = await tx.findOne(DepositCheckout, { where: { quoteId: quote.id }, order: { attempt: "DESC" } });
+    const latestPaid = latest ? payments_.some((p) => p.stripeCheckoutSessionId === latest.stripeSessionId) : false;
     if (latest?.status === "open") {
       let session: Stripe.Checkout.Session;
       try {
@@ -135,7 +141,7 @@ export async function startDepositCheckout(deps: PaymentDeps, token: string): Pr
         throw new AppError("conflict", "Your payment was received and is being confirmed; this page will show it in a moment", { state: "processing" });
       }
       await tx.update(DepositCheckout, { id: latest.id }, { status: "expired" });
-    } else if (latest?.status === "complete") {
+    } else if (latest?.status === "complete" && !latestPaid) {
       throw new AppError("conflict", "Your payment was received and is being confirmed; this page will show it in a moment", { state: "processing" });
     }
 
@@ -193,11 +199,28 @@ export async function startDepositCheckout(deps: PaymentDeps, token: string): Pr
 export function verifyStripeEvent(payments: Payments, rawBody: unknown, signature: string | undefined): Stripe.Event {
   if (!Buffer.isBuffer(rawBody) || rawBody.length === 0) throw new AppError("invalid_input", "The webhook body must be Stripe's JSON event");
   if (!signature) throw new AppError("invalid_input", "Stripe-Signature header is missing");
+  let event: Stripe.Event;
   try {
-    return payments.stripe.webhooks.constructEvent(rawBody, signature, payments.webhookSecret);
+    event = payments.stripe.webhooks.constructEvent(rawBody, signature, payments.webhookSecret);
   } catch {
     throw new AppError("invalid_input", "Stripe-Signature does not match this body; the event was not recorded");
   }
+  // Signed, but not in Stripe's shape: refused, nothing recorded.
+  const shape = event as unknown as { id?: unknown; type?: unknown; created?: unknown; data?: { object?: unknown } } | null;
+  if (
+    !shape ||
+    typeof shape !== "object" ||
+    typeof shape.id !== "string" ||
+    !/^[A-Za-z0-9_]{1,255}$/.test(shape.id) ||
+    typeof shape.type !== "string" ||
+    shape.type.length > 100 ||
+    typeof shape.created !== "number" ||
+    typeof shape.data?.object !== "object" ||
+    shape.data.object === null
+  ) {
+    throw new AppError("invalid_input", "The event is not in Stripe's shape (id, type, created, data.object); it was not recorded");
+  }
+  return event;
 }
 
 type Outcome = { outcome: string; notify?: string };
@@ -217,6 +240,13 @@ async function refreshRefunds(tx: EntityManager, payment: Payment): Promise<Paym
   return { ...payment, refundedMinor, status };
 }
 
+/** Text from Stripe for our columns: no control characters (PostgreSQL refuses NUL), trimmed to the column. */
+function cleanText(value: unknown, max: number): string | null {
+  if (typeof value !== "string") return null;
+  const text = value.replace(/[\u0000-\u001f\u007f]/g, " ").trim().slice(0, max);
+  return text || null;
+}
+
 const idOf = (value: string | { id: string } | null | undefined): string | null => (typeof value === "string" ? value : (value?.id ?? null));
 
 async function recordCheckoutPayment(tx: EntityManager, event: Stripe.Event, session: Stripe.Checkout.Session): Promise<Outcome> {
@@ -232,16 +262,19 @@ async function recordCheckoutPayment(tx: EntityManager, event: Stripe.Event, ses
   if (await tx.findOneBy(Payment, { stripeCheckoutSessionId: session.id })) return { outcome: "ignored: payment already recorded" };
   const quote = await tx.findOneByOrFail(Quote, { id: known.id });
 
-  const amount = session.amount_total ?? 0;
-  const currency = (session.currency ?? "").toUpperCase();
+  const amount = typeof session.amount_total === "number" && Number.isSafeInteger(session.amount_total) && session.amount_total >= 0 ? session.amount_total : 0;
+  // ISO 4217's "XXX" (no currency) stands in for a missing or malformed one, so money still formats.
+  const given = typeof session.currency === "string" ? session.currency.toUpperCase() : "";
+  const currency = /^[A-Z]{3}$/.test(given) ? given : "XXX";
   let mismatch: string | null = null;
-  if (currency !== quote.currency) mismatch = `Paid in ${currency || "an unknown currency"}; the deposit is due in ${quote.currency}`;
+  if (currency !== quote.currency) mismatch = `Paid in ${currency === "XXX" ? "an unknown currency" : currency}; the deposit is due in ${quote.currency}`;
+  else if (session.amount_total !== amount) mismatch = "Stripe reported no amount for this payment";
   else if (amount !== quote.depositMinor) mismatch = `Paid ${formatMoney(amount, currency)}; the deposit due is ${formatMoney(quote.depositMinor, quote.currency)}`;
   else if (quote.status === "deposit paid") mismatch = "The deposit had already been paid; this is a second payment";
   else if (quote.status !== "accepted") mismatch = `The quote was ${quote.status} when this payment arrived`;
 
   const count = await tx.countBy(Payment, { quoteId: quote.id });
-  const payerName = session.customer_details?.name ?? null;
+  const payerName = cleanText(session.customer_details?.name, 200);
   const inserted = await tx.insert(Payment, {
     companyId: quote.companyId,
     quoteId: quote.id,
@@ -250,12 +283,12 @@ async function recordCheckoutPayment(tx: EntityManager, event: Stripe.Event, ses
     status: mismatch ? "mismatch" : "paid",
     mismatchReason: mismatch,
     amountMinor: amount,
-    currency: currency.slice(0, 3).padEnd(3, "?"),
+    currency,
     expectedAmountMinor: quote.depositMinor,
     expectedCurrency: quote.currency,
     paidAt: new Date((event.created || Date.now() / 1000) * 1000),
-    payerName: payerName?.slice(0, 200) ?? null,
-    payerEmail: (session.customer_details?.email ?? session.customer_email ?? null)?.slice(0, 254) ?? null,
+    payerName,
+    payerEmail: cleanText(session.customer_details?.email ?? session.customer_email, 254),
     stripeCheckoutSessionId: session.id,
     stripePaymentIntentId: paymentIntentId,
     stripeEventId: event.id,
@@ -266,7 +299,7 @@ async function recordCheckoutPayment(tx: EntityManager, event: Stripe.Event, ses
   if (paymentIntentId) await tx.update(PaymentRefund, { stripePaymentIntentId: paymentIntentId, paymentId: IsNull() }, { paymentId });
   const payment = await refreshRefunds(tx, await tx.findOneByOrFail(Payment, { id: paymentId }));
 
-  const paid = formatMoney(amount, currency || quote.currency);
+  const paid = formatMoney(amount, currency);
   if (!mismatch) {
     await tx.update(Quote, { id: quote.id }, { status: "deposit paid" });
     await recordQuoteEvent(tx, quote, "deposit_paid", payerName ?? quote.snapshot.client.name, `${paid} · receipt ${payment.receiptNumber}`);
@@ -314,29 +347,34 @@ async function recordRefund(tx: EntityManager, refund: Stripe.Refund, createdByI
  */
 export async function handleStripeEvent(deps: PaymentDeps, event: Stripe.Event): Promise<{ duplicate: boolean; outcome: string }> {
   const result = await deps.db.transaction(async (tx): Promise<Outcome & { duplicate: boolean }> => {
+    // PostgreSQL's jsonb cannot hold NUL characters: they are dropped from the stored copy only.
+    const stored = JSON.stringify(event, (_key, value: unknown) => (typeof value === "string" ? value.replace(/\u0000/g, "") : value));
     const inserted: unknown[] = await tx.query(`INSERT INTO stripe_event (id, type, payload) VALUES ($1, $2, $3) ON CONFLICT (id) DO NOTHING RETURNING id`, [
       event.id.slice(0, 255),
       event.type.slice(0, 100),
-      JSON.stringify(event),
+      stored,
     ]);
     if (inserted.length === 0) return { duplicate: true, outcome: "duplicate" };
+    const object = event.data.object as unknown as { id?: unknown; object?: unknown };
+    const hasId = typeof object.id === "string" && object.id.length > 0;
     let handled: Outcome;
     switch (event.type) {
       case "checkout.session.completed":
       case "checkout.session.async_payment_succeeded":
-        handled = await recordCheckoutPayment(tx, event, event.data.object);
+        handled = hasId ? await recordCheckoutPayment(tx, event, event.data.object) : { outcome: "ignored: malformed session" };
         break;
       case "checkout.session.expired":
-        await tx.update(DepositCheckout, { stripeSessionId: event.data.object.id, status: "open" }, { status: "expired" });
-        handled = { outcome: "session expired" };
+        if (hasId) await tx.update(DepositCheckout, { stripeSessionId: String(object.id), status: "open" }, { status: "expired" });
+        handled = { outcome: hasId ? "session expired" : "ignored: malformed session" };
         break;
       case "refund.created":
       case "refund.updated":
-        handled = await recordRefund(tx, event.data.object, null);
+        handled = hasId ? await recordRefundFromStripe(deps, tx, String(object.id)) : { outcome: "ignored: malformed refund" };
         break;
       case "charge.refunded": {
         const outcomes: string[] = [];
-        for (const refund of event.data.object.refunds?.data ?? []) outcomes.push((await recordRefund(tx, refund, null)).outcome);
+        const listed = (event.data.object.refunds?.data ?? []) as Array<{ id?: unknown }>;
+        for (const refund of listed) if (typeof refund?.id === "string") outcomes.push((await recordRefundFromStripe(deps, tx, refund.id)).outcome);
         handled = { outcome: outcomes.length > 0 ? outcomes.join("; ").slice(0, 200) : "ignored: no refunds listed" };
         break;
       }
@@ -346,8 +384,27 @@ export async function handleStripeEvent(deps: PaymentDeps, event: Stripe.Event):
     await tx.update(StripeEvent, { id: event.id }, { outcome: handled.outcome });
     return { duplicate: false, ...handled };
   });
-  if (result.notify) await sendPaymentMails(deps, result.notify);
+  // After the commit: a failure here is logged and kept on the payment, never fails the webhook.
+  if (result.notify) await sendPaymentMails(deps, result.notify).catch((error: unknown) => deps.logger.warn({ err: error }, "could not send the payment's e-mails"));
   return { duplicate: result.duplicate, outcome: result.outcome };
+}
+
+/**
+ * A refund as Stripe has it now, not as the event carried it: events about one refund can come
+ * late and out of order (created after updated), and the current state is the one to record.
+ */
+async function recordRefundFromStripe(deps: PaymentDeps, tx: EntityManager, refundId: string): Promise<Outcome> {
+  if (!deps.payments) return { outcome: "ignored: payments are off" };
+  let refund: Stripe.Refund;
+  try {
+    refund = await deps.payments.stripe.refunds.retrieve(refundId);
+  } catch (error) {
+    if (error instanceof Stripe.errors.StripeInvalidRequestError) return { outcome: "ignored: Stripe does not know this refund" };
+    // Stripe unreachable: answer 503 so that Stripe delivers the event again later.
+    deps.logger.warn({ err: error }, "Stripe: retrieving a refund failed");
+    throw new AppError("service_unavailable", "Stripe could not be reached to check this refund; deliver the event again later");
+  }
+  return recordRefund(tx, refund, null);
 }
 
 // ---------------------------------------------------------------- receipts and notices
@@ -434,9 +491,12 @@ async function sendPaymentMails(deps: PaymentDeps, paymentId: string): Promise<v
 export async function refundPayment(deps: PaymentDeps, companyId: string, userId: string, paymentId: string, input: z.output<typeof RefundInput>): Promise<PaymentView> {
   const { payments } = deps;
   await deps.db.transaction(async (tx) => {
-    const payment = await companyScope(tx, companyId).mustFind(Payment, { id: paymentId }, "Payment", true);
+    const found = await companyScope(tx, companyId).mustFind(Payment, { id: paymentId }, "Payment");
     if (!payments) throw new AppError("service_unavailable", "Online payments are not set up, so refunds cannot be made from here");
-    if (!payment.stripePaymentIntentId) throw new AppError("conflict", "This payment has no Stripe payment to refund");
+    if (!found.stripePaymentIntentId) throw new AppError("conflict", "This payment has no Stripe payment to refund");
+    // The lock order of the webhooks: the PaymentIntent, then the payment row.
+    await lockPaymentIntent(tx, found.stripePaymentIntentId);
+    const payment = await tx.findOneOrFail(Payment, { where: { id: found.id }, lock: { mode: "pessimistic_write" } });
     const left = payment.amountMinor - payment.refundedMinor;
     if (left <= 0) throw new AppError("conflict", "This payment has already been refunded in full");
     const amount = input.amountMinor ?? left;
@@ -447,13 +507,14 @@ export async function refundPayment(deps: PaymentDeps, companyId: string, userId
     let refund: Stripe.Refund;
     try {
       refund = await payments.stripe.refunds.create(
-        { payment_intent: payment.stripePaymentIntentId, amount, ...(input.reason ? { reason: input.reason } : {}), metadata: { paymentId: payment.id } },
-        { idempotencyKey: `runwright-refund-${payment.id}-${payment.refundedMinor}-${amount}` },
+        { payment_intent: found.stripePaymentIntentId, amount, ...(input.reason ? { reason: input.reason } : {}), metadata: { paymentId: payment.id } },
+        // One key per Refund dialog when the screen sends one (a second press refunds once); otherwise per state.
+        { idempotencyKey: input.requestId ? `runwright-refund-${payment.id}-${input.requestId}` : `runwright-refund-${payment.id}-${payment.refundedMinor}-${amount}` },
       );
     } catch (error) {
-      if (error instanceof Stripe.errors.StripeInvalidRequestError) {
+      if (error instanceof Stripe.errors.StripeInvalidRequestError || error instanceof Stripe.errors.StripeIdempotencyError) {
         deps.logger.warn({ err: error }, "Stripe refused a refund");
-        throw new AppError("payment_failed", `Stripe refused the refund: ${error.message}`);
+        throw new AppError("conflict", `Stripe refused the refund (${error.message}); reload the payment to see what has been refunded`);
       }
       throw providerError(deps, error, "creating a refund");
     }
@@ -468,16 +529,17 @@ export async function refundPayment(deps: PaymentDeps, companyId: string, userId
 export async function depositTotals(db: DataSource, companyId: string, monthStart: Date): Promise<DepositTotals> {
   const [received]: Array<{ n: string; amount: string; refunded: string }> = await db.query(
     `SELECT count(*) AS n, coalesce(sum(amount_minor), 0) AS amount, coalesce(sum(refunded_minor), 0) AS refunded
-       FROM payment WHERE company_id = $1 AND status <> 'mismatch' AND paid_at >= $2`,
+       FROM payment WHERE company_id = $1 AND mismatch_reason IS NULL AND paid_at >= $2`,
     [companyId, monthStart],
   );
   // Accepted quotes (the live revision) with a deposit due and nothing received for them.
   const [outstanding]: Array<{ n: string; amount: string }> = await db.query(
     `SELECT count(*) AS n, coalesce(sum(q.deposit_minor), 0) AS amount FROM quote q
       WHERE q.company_id = $1 AND q.status = 'accepted' AND q.superseded_at IS NULL AND q.deposit_minor > 0
-        AND NOT EXISTS (SELECT 1 FROM payment p WHERE p.quote_id = q.id)`,
+        AND NOT EXISTS (SELECT 1 FROM payment p WHERE p.quote_id = q.id AND NOT (p.mismatch_reason IS NOT NULL AND p.status = 'refunded'))`,
     [companyId],
   );
+  // Flagged and not yet settled (a flagged payment refunded in full is settled).
   const flagged = await db.manager.find(Payment, { where: { companyId, status: "mismatch" }, order: { paidAt: "DESC" }, take: 20 });
   return {
     receivedThisMonth: { count: Number(received?.n ?? 0), amountMinor: Number(received?.amount ?? 0), refundedMinor: Number(received?.refunded ?? 0) },

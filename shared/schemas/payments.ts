@@ -65,6 +65,8 @@ export const RefundInput = z.strictObject({
     .max(MAX_MONEY_MINOR, "amountMinor is too large")
     .optional(),
   reason: RefundReason.optional(),
+  /** Made once per Refund dialog: a second press or a retried request refunds once. */
+  requestId: z.uuid("requestId must be a uuid").optional(),
 });
 
 /** The deposit as the client's page shows it. */

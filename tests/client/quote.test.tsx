@@ -279,6 +279,7 @@ describe("the Quote screen", () => {
 const PAYMENT_ID = "9b1c2d3e-4f5a-4b6c-8d7e-000000000003";
 const FLAGGED_ID = "9b1c2d3e-4f5a-4b6c-8d7e-000000000004";
 const REFUNDS = `POST /api/payments/${PAYMENT_ID}/refunds`;
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-4[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/;
 
 function payment(extra: Partial<Payment> = {}): Payment {
   return {
@@ -457,7 +458,7 @@ describe("the quote's payments", () => {
     fireEvent.click(within(dialog).getByRole("button", { name: "Refund" }));
 
     await waitFor(() => expect(screen.queryByRole("dialog")).toBeNull());
-    expect(api.callsTo(REFUNDS).map((c) => c.body)).toEqual([{ amountMinor: 12_050, reason: "duplicate" }]);
+    expect(api.callsTo(REFUNDS).map((c) => c.body)).toEqual([{ amountMinor: 12_050, reason: "duplicate", requestId: expect.stringMatching(UUID) }]);
     expect(await screen.findByRole("status", { name: "$120.50 refunded to the client on R-2026-0007." })).toBeTruthy();
     await waitFor(() => expect(api.callsTo(QUOTE)).toHaveLength(2));
     await waitFor(() => expect(screen.getByRole("listitem", { name: "Receipt R-2026-0007" }).textContent).toContain("Refunded $220.50 of $555.34"));
@@ -476,13 +477,16 @@ describe("the quote's payments", () => {
     await waitFor(() => expect(amount.getAttribute("aria-invalid")).toBe("true"));
     expect(descriptionOf(amount)).toContain("at most 45534 is left to refund");
     expect(within(dialog).queryByRole("alert")).toBeNull();
-    expect(api.callsTo(REFUNDS).map((c) => c.body)).toEqual([{ amountMinor: 45_534, reason: "requested_by_customer" }]);
+    expect(api.callsTo(REFUNDS).map((c) => c.body)).toEqual([{ amountMinor: 45_534, reason: "requested_by_customer", requestId: expect.stringMatching(UUID) }]);
 
-    reply = apiError(502, "payment_failed", "Stripe refused the refund: The charge has been disputed.");
+    reply = apiError(409, "conflict", "Stripe refused the refund (The charge has been disputed.); reload the payment to see what has been refunded");
     fireEvent.click(within(dialog).getByRole("button", { name: "Refund" }));
-    expect((await within(dialog).findByRole("alert")).textContent).toContain("No refund was made. Stripe refused the refund: The charge has been disputed.");
+    expect((await within(dialog).findByRole("alert")).textContent).toContain("Stripe refused the refund (The charge has been disputed.)");
     expect(screen.getByRole("dialog", { name: "Refund R-2026-0007" })).toBeTruthy();
     expect(api.callsTo(REFUNDS)).toHaveLength(2);
+    // The same dialog retried: the same request id, so the server refunds at most once.
+    const [firstId, secondId] = api.callsTo(REFUNDS).map((c) => (c.body as { requestId: string }).requestId);
+    expect(secondId).toBe(firstId);
   });
 
   it.each(["estimator", "installer"] as const)("lists the payments for an %s without a Refund button", async (role) => {

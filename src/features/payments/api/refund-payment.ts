@@ -9,7 +9,7 @@ import { paymentsKey } from "./get-job-payments";
 export type RefundBody = z.output<typeof RefundInput>;
 
 // 201 the payment with its new refund; 400 invalid_input with details.fields.amountMinor (more than is left);
-// 409 when nothing is left; 502 payment_failed with Stripe's reason in the message.
+// 409 when nothing is left or Stripe refused (its reason in the message); 502 payment_failed when Stripe was unreachable.
 export const refundPayment = ({ paymentId, body }: { paymentId: string; body: RefundBody }) =>
   apiRequest(`/payments/${encodeURIComponent(paymentId)}/refunds`, PaymentSchema, { method: "POST", body });
 

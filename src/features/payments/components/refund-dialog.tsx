@@ -47,6 +47,8 @@ export function RefundDialog({ payment, onRefunded, onClose }: { payment: Paymen
   const money = (minor: number) => formatMoney(minor, currency);
   const refund = useRefundPayment();
   const [alert, setAlert] = useState<string | null>(null);
+  // One id per opened dialog: a double press or a retried request refunds once (the server's idempotency key).
+  const [requestId] = useState(() => crypto.randomUUID());
   const {
     register,
     handleSubmit,
@@ -65,7 +67,7 @@ export function RefundDialog({ payment, onRefunded, onClose }: { payment: Paymen
   const onSubmit = handleSubmit(({ amount, reason }) => {
     setAlert(null);
     refund.mutate(
-      { paymentId: payment.id, body: { amountMinor: amount, reason } },
+      { paymentId: payment.id, body: { amountMinor: amount, reason, requestId } },
       {
         onSuccess: () => onRefunded(amount),
         onError: (error) => {
