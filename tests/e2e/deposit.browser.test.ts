@@ -85,7 +85,7 @@ describe.skipIf(!hasChromium)("the client pays the deposit on the Stripe fake's 
 
     // Back on the client's page: confirmed by the webhook, with the receipt.
     await page.waitForURL(/deposit=returned/, { timeout: 15000 });
-    await page.getByRole("heading", { name: "Deposit paid — thank you" }).waitFor({ timeout: 30000 });
+    await page.getByRole("heading", { name: "Deposit paid — thank you", exact: true }).waitFor({ timeout: 30000 });
     const paidText = await page.locator("main").innerText();
     expect(paidText).toContain(deposit);
     const payment = await db.manager.findOneByOrFail(Payment, { quoteId: sent.quoteId });
@@ -110,7 +110,7 @@ describe.skipIf(!hasChromium)("the client pays the deposit on the Stripe fake's 
     expect(await staff.locator("main").innerText()).toContain(deposit);
     await staff.screenshot({ path: path.join(shots, "6-dashboard.png"), fullPage: true });
     await staff.goto(`${app.url}/jobs/${quote.jobId}/quotes/${quote.id}`);
-    await staff.getByRole("heading", { name: "Payments" }).waitFor({ timeout: 15000 });
+    await staff.getByRole("heading", { name: "Payments", exact: true }).waitFor({ timeout: 15000 });
     await expect.poll(() => staff.locator("main").innerText(), { timeout: 15000 }).toContain(payment.receiptNumber);
     await staff.screenshot({ path: path.join(shots, "7-quote-payments.png"), fullPage: true });
 
