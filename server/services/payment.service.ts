@@ -122,13 +122,13 @@ export async function startDepositCheckout(deps: PaymentDeps, token: string): Pr
       throw new AppError("service_unavailable", `Online payment is not set up for this company; please contact ${who} to pay the deposit`);
     }
     // A flagged payment blocks a new one until it is settled; refunded in full, it no longer counts.
-    const payments_ = await tx.findBy(Payment, { quoteId: quote.id });
-    if (payments_.some((p) => !settledFlag(p))) {
+    const received = await tx.findBy(Payment, { quoteId: quote.id });
+    if (received.some((p) => !settledFlag(p))) {
       throw new AppError("conflict", "A payment for this quote has been received and is being checked; the contractor will be in touch");
     }
 
     const latest = await tx.findOne(DepositCheckout, { where: { quoteId: quote.id }, order: { attempt: "DESC" } });
-    const latestPaid = latest ? payments_.some((p) => p.stripeCheckoutSessionId === latest.stripeSessionId) : false;
+    const latestPaid = latest ? received.some((p) => p.stripeCheckoutSessionId === latest.stripeSessionId) : false;
     if (latest?.status === "open") {
       let session: Stripe.Checkout.Session;
       try {
