@@ -31,6 +31,7 @@ import { quoteLinkRoutes } from "./routes/quote-links.routes.js";
 import { dashboardRoutes } from "./routes/dashboard.routes.js";
 import { jobPaymentRoutes, paymentRoutes, stripeWebhookRoute } from "./routes/payments.routes.js";
 import type { Payments } from "./payments/stripe-client.js";
+import type { JobQueue } from "./jobs/queue.js";
 
 export interface AppOptions {
   db: DataSource;
@@ -53,6 +54,8 @@ export interface AppOptions {
   pruneSessions?: boolean;
   /** Stripe (or the local fake) for deposits; absent: online deposits are off. */
   payments?: Payments | null;
+  /** Background jobs (started by the caller, with workers registered); absent: a refused e-mail answers 502. */
+  jobs?: JobQueue | null;
 }
 
 /** Builds the Express app. No side effects: it neither listens nor connects. */
@@ -100,6 +103,7 @@ export function createApp(options: AppOptions): Express {
     logger,
     rateLimit: options.authRateLimit ?? AUTH_RATE_LIMIT,
     payments: options.payments ?? null,
+    jobs: options.jobs ?? null,
   };
   const passport = createPassport(db);
 

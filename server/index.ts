@@ -11,6 +11,8 @@ import { seedDemo } from "./db/seed.js";
 import { closeServer, listen } from "./http-server.js";
 import type { PaymentsSettings } from "./config/payments.js";
 import { createPayments } from "./payments/stripe-client.js";
+import { JobQueue } from "./jobs/queue.js";
+import { startWorkers } from "./jobs/workers.js";
 
 export interface StartOptions {
   env: Env;
@@ -42,12 +44,16 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true, da
   const mailer = createMailer(smtpSettingsFromEnv(env, mailCatcherPort));
   const db = createDataSource({ url: databaseUrl, connectTimeoutMs: env.DB_CONNECT_TIMEOUT_MS });
   await db.initialize();
+  const jobs = new JobQueue({ url: databaseUrl, logger });
   try {
     const ran = await db.runMigrations({ transaction: "all" });
     if (ran.length > 0) logger.info({ migrations: ran.map((m) => m.name) }, "migrations ran");
     if (seed) await seedDemo(db);
     // Parse the PDF fonts now, so the first quote PDF does not pay for it (about 1 s here).
     loadFonts();
+    await jobs.start();
+    const publicBase = publicUrl(env);
+    await startWorkers(jobs, { db, mailer, publicUrl: publicBase, jobs });
     const app = createApp({
       db,
       clientDir,
@@ -56,10 +62,11 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true, da
       sessionSecret,
       cookieSecure: env.COOKIE_SECURE,
       trustProxy: /^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY,
-      publicUrl: publicUrl(env),
+      publicUrl: publicBase,
       mailer,
       pruneSessions: true,
       payments: payments ? createPayments(payments) : null,
+      jobs,
     });
     const server = await listen(app, env.HOST, env.PORT);
     return {
@@ -68,11 +75,14 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true, da
       url: `http://${env.HOST}:${env.PORT}`,
       async stop() {
         await closeServer(server);
+        // Running jobs finish (or are retried later by another instance); no new ones start.
+        await jobs.stop();
         mailer.close();
         await db.destroy();
       },
     };
   } catch (error) {
+    await jobs.stop().catch(() => {});
     mailer.close();
     await db.destroy();
     throw error;

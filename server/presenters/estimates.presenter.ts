@@ -61,6 +61,7 @@ export function presentQuoteSummary(q: Quote, senders: Map<string, string>): Quo
     sentTo: q.sentTo,
     sentBy: q.sentById ? (senders.get(q.sentById) ?? null) : null,
     sendError: q.sendError,
+    sendPendingSince: iso(q.sendPendingAt),
     viewedAt: iso(q.viewedAt),
     acceptedAt: iso(q.acceptedAt),
     acceptedName: q.acceptedName,

@@ -1,5 +1,6 @@
 import type { Logger } from "pino";
 import type { DataSource } from "typeorm";
+import type { JobQueue } from "../jobs/queue.js";
 import type { Mailer } from "../mail/mailer.js";
 import type { RateLimitSettings } from "../middleware/rate-limit.js";
 import type { Payments } from "../payments/stripe-client.js";
@@ -14,4 +15,6 @@ export interface AccountDeps {
   rateLimit: RateLimitSettings;
   /** Stripe (or the local fake); null when online deposits are not set up. */
   payments: Payments | null;
+  /** Background jobs in PostgreSQL (queued sends); null in apps that run none. */
+  jobs: JobQueue | null;
 }

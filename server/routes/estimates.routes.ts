@@ -3,6 +3,7 @@ import { CreateQuoteInput, EstimateLimits, SaveEstimateInput, SendQuoteInput, Up
 import { can, requireAuth } from "../auth/context.js";
 import { AppError } from "../errors.js";
 import { singleFile } from "../middleware/upload.js";
+import { PdfCache, quotePdfKey } from "../pdf/pdf-cache.js";
 import { presentEstimatingSettings, presentQuoteDetail, presentQuoteSummary, senderNames } from "../presenters/estimates.presenter.js";
 import { findEstimate, generateEstimate, presentEstimate, saveEstimate } from "../services/estimate.service.js";
 import { deleteLogo, getEstimatingSettings, readLogo, saveLogo, updateEstimatingSettings } from "../services/estimating-settings.service.js";
@@ -112,6 +113,8 @@ export function jobEstimateRoutes({ db }: AccountDeps): Router {
 export function quoteRoutes(deps: AccountDeps): Router {
   const { db } = deps;
   const router = Router();
+  // Rendering takes the event loop for ~150 ms; a revision's PDF is the same until its row changes (pdf-cache.ts).
+  const renderedPdfs = new PdfCache();
 
   router.get("/:quoteId", can("jobs:read"), async (req, res) => {
     res.json(await quoteDetail(db, await getQuote(db.manager, requireAuth(req).companyId, idParam(req.params.quoteId, "Quote"))));
@@ -119,15 +122,17 @@ export function quoteRoutes(deps: AccountDeps): Router {
 
   router.get("/:quoteId/pdf", can("jobs:read"), async (req, res) => {
     const quote = await getQuote(db.manager, requireAuth(req).companyId, idParam(req.params.quoteId, "Quote"));
-    sendPdf(res, await quotePdf(quote, null), `${quoteLabel(quote).replace(/\s+/g, "-")}.pdf`, req.query.download !== undefined);
+    const pdf = await renderedPdfs.get(quotePdfKey(quote, null), () => quotePdf(quote, null));
+    sendPdf(res, pdf, `${quoteLabel(quote).replace(/\s+/g, "-")}.pdf`, req.query.download !== undefined);
   });
 
   router.post("/:quoteId/send", can("quotes:write"), async (req, res) => {
     const auth = requireAuth(req);
     const id = idParam(req.params.quoteId, "Quote");
     const input = SendQuoteInput.parse(req.body ?? {});
-    const quote = await sendQuote(deps, auth.companyId, { userId: auth.userId, name: auth.name }, id, input);
-    res.json(await quoteDetail(db, quote));
+    const { quote, pending } = await sendQuote(deps, auth.companyId, { userId: auth.userId, name: auth.name }, id, input);
+    // 202: the mail server did not take it yet; the queued job keeps trying ("send pending").
+    res.status(pending ? 202 : 200).json(await quoteDetail(db, quote));
   });
 
   router.post("/:quoteId/link", can("quotes:write"), async (req, res) => {

@@ -6,6 +6,7 @@ import type { AcceptQuoteInput, CreateQuoteInput, QuoteSnapshot, QuoteStatus, Se
 import { newLinkToken, secretMatches, splitLinkToken } from "../auth/tokens.js";
 import { Client, Company, Job, Quote, QuoteEvent, User } from "../db/entities/index.js";
 import { AppError } from "../errors.js";
+import type { JobQueue } from "../jobs/queue.js";
 import type { Mailer } from "../mail/mailer.js";
 import { quoteAnsweredMail, quoteMail } from "../mail/templates.js";
 import { renderQuotePdf } from "../pdf/quote-pdf.js";
@@ -17,6 +18,8 @@ export interface QuoteDeps {
   db: DataSource;
   mailer: Mailer;
   publicUrl: string;
+  /** The background job queue; absent, a send the mail server refuses answers 502 at once. */
+  jobs?: JobQueue | null;
 }
 
 /** "Q-2026-0042 R2" */
@@ -201,66 +204,57 @@ export function quotePdf(quote: Quote, acceptUrl: string | null): Promise<Buffer
   return renderQuotePdf(quote.snapshot, { label: quoteLabel(quote), acceptUrl });
 }
 
+/** What a queued send carries: enough to send as the person who pressed Send. */
+export interface QuoteSendJob {
+  companyId: string;
+  quoteId: string;
+  userId: string;
+  userName: string;
+  to: string;
+  message: string | null;
+}
+
+export interface SendOutcome {
+  quote: Quote;
+  /** The mail server did not take it: a job retries with back-off and the quote says "send pending". */
+  pending: boolean;
+}
+
 /**
  * E-mails the quote with its PDF and a fresh client link. Idempotent per revision: the row is locked
- * for the whole send, so a retry or a double click waits and then finds the quote already sent. A
- * failed send leaves the quote a draft with the error recorded.
+ * for the whole send, so a retry or a double click waits and then finds the quote already sent.
+ * When the mail server does not take the e-mail, the quote stays a draft marked "send pending" and a
+ * job queued in the same transaction keeps trying with back-off (without a job queue the failure
+ * answers 502). Pressing Send again while pending tries again at once; it queues nothing more.
  */
-export async function sendQuote(deps: QuoteDeps, companyId: string, user: { userId: string; name: string }, id: string, input: z.output<typeof SendQuoteInput>): Promise<Quote> {
-  const { db, mailer, publicUrl } = deps;
+export async function sendQuote(deps: QuoteDeps, companyId: string, user: { userId: string; name: string }, id: string, input: z.output<typeof SendQuoteInput>): Promise<SendOutcome> {
+  const { db, jobs } = deps;
   let failure: string | null = null;
-  const sent = await db.transaction(async (tx) => {
+  const outcome = await db.transaction(async (tx): Promise<SendOutcome> => {
     const found = await companyScope(tx, companyId).mustFind(Quote, { id }, "Quote");
     // One lock order for everything that changes quotes: the job, then every revision of the
     // quote by revision. A send, a new revision and a client's answer on the same job queue up
     // instead of deadlocking, and no revision is answered while a later one is being sent.
     await lockJobAndRevisions(tx, companyId, found.jobId, found.number);
     const quote = await tx.findOneByOrFail(Quote, { id });
-    if (quote.status !== "draft") return quote;
-    if (quote.supersededAt) throw new AppError("conflict", "A later revision of this quote was sent; send that one");
-    // A draft made before the client accepted an earlier revision must not supersede the accepted one.
-    const answered: unknown[] = await tx.query(`SELECT 1 FROM quote WHERE company_id = $1 AND number = $2 AND revision <> $3 AND status IN ('accepted', 'deposit paid') LIMIT 1`, [companyId, quote.number, quote.revision]);
-    if (answered.length) throw new AppError("conflict", `The client accepted an earlier revision of ${quote.number}; this draft cannot replace it`);
-    if (quote.validUntil < today()) throw new AppError("conflict", `This draft was valid until ${quote.validUntil}; make a new revision from the estimate`);
+    if (quote.status !== "draft") return { quote, pending: false };
+    await assertSendable(tx, quote);
     const to = input.to ?? quote.snapshot.client.email;
     if (!to) throw new AppError("invalid_input", "to: the client has no e-mail address; give one", { fields: { to: "the client has no e-mail address" } });
-    const link = newLinkToken();
-    const url = clientUrl(publicUrl, link.token);
-    const label = quoteLabel(quote);
-    const pdf = await quotePdf(quote, url);
-    const s = quote.snapshot;
-    try {
-      await mailer.send({
-        ...quoteMail({
-          to,
-          companyName: s.company.name,
-          clientName: s.client.name,
-          label,
-          jobTitle: s.job.title,
-          total: formatMoney(s.totals.totalMinor, s.currency),
-          deposit: formatMoney(s.totals.depositMinor, s.currency),
-          validUntil: s.validUntil,
-          url,
-          message: input.message,
-          senderName: user.name,
-        }),
-        attachments: [{ filename: `${label.replace(/\s+/g, "-")}.pdf`, content: pdf, contentType: "application/pdf" }],
-      });
-    } catch (error) {
-      failure = error instanceof Error ? error.message.slice(0, 400) : "the mail server refused the message";
-      return quote;
+    const job: QuoteSendJob = { companyId, quoteId: id, userId: user.userId, userName: user.name, to, message: input.message ?? null };
+    failure = await deliverQuote(deps, tx, quote, job);
+    if (!failure) return { quote: await tx.findOneByOrFail(Quote, { id }), pending: false };
+    if (!jobs) return { quote, pending: false };
+    if (!quote.sendPendingAt) {
+      await tx.update(Quote, { id }, { sendPendingAt: new Date(), sendError: `The e-mail could not be sent yet: ${failure}` });
+      await event(tx, quote, "send_pending", user.name, failure);
+      await jobs.enqueue(tx, "quote-send", job);
+    } else {
+      await tx.update(Quote, { id }, { sendError: `The e-mail could not be sent yet: ${failure}` });
     }
-    const now = new Date();
-    await tx.update(Quote, { id }, { status: "sent", sentAt: now, sentTo: to, sentById: user.userId, sendError: null, linkId: link.id, linkHash: link.hash });
-    // The earlier revisions' links now answer "superseded".
-    await tx.query(
-      `UPDATE quote SET superseded_at = $1 WHERE company_id = $2 AND number = $3 AND revision < $4 AND superseded_at IS NULL AND status NOT IN ('accepted', 'deposit paid')`,
-      [now, companyId, quote.number, quote.revision],
-    );
-    await tx.query(`UPDATE job SET status = 'quoted', updated_at = now() WHERE id = $1 AND status = 'lead'`, [quote.jobId]);
-    await event(tx, quote, "sent", user.name, `to ${to}`);
-    return tx.findOneByOrFail(Quote, { id });
+    return { quote: await tx.findOneByOrFail(Quote, { id }), pending: true };
   });
+  if (outcome.pending) return outcome;
   if (failure) {
     await db.transaction(async (tx) => {
       await tx.update(Quote, { id, companyId }, { sendError: `The e-mail could not be sent: ${failure}` });
@@ -268,7 +262,94 @@ export async function sendQuote(deps: QuoteDeps, companyId: string, user: { user
     });
     throw new AppError("mail_failed", `The e-mail could not be sent (${failure}); the quote stays a draft — try again`);
   }
-  return sent;
+  return outcome;
+}
+
+/** Refuses a draft that must not go out any more (a conflict naming why). */
+async function assertSendable(tx: EntityManager, quote: Quote): Promise<void> {
+  if (quote.supersededAt) throw new AppError("conflict", "A later revision of this quote was sent; send that one");
+  // A draft made before the client accepted an earlier revision must not supersede the accepted one.
+  const answered: unknown[] = await tx.query(`SELECT 1 FROM quote WHERE company_id = $1 AND number = $2 AND revision <> $3 AND status IN ('accepted', 'deposit paid') LIMIT 1`, [quote.companyId, quote.number, quote.revision]);
+  if (answered.length) throw new AppError("conflict", `The client accepted an earlier revision of ${quote.number}; this draft cannot replace it`);
+  if (quote.validUntil < today()) throw new AppError("conflict", `This draft was valid until ${quote.validUntil}; make a new revision from the estimate`);
+}
+
+/**
+ * One attempt to e-mail a locked draft; on success the quote is marked sent (with a new link, the
+ * earlier revisions superseded, the job quoted). Returns why it failed, or null.
+ */
+async function deliverQuote(deps: QuoteDeps, tx: EntityManager, quote: Quote, job: QuoteSendJob): Promise<string | null> {
+  const link = newLinkToken();
+  const url = clientUrl(deps.publicUrl, link.token);
+  const label = quoteLabel(quote);
+  const pdf = await quotePdf(quote, url);
+  const s = quote.snapshot;
+  try {
+    await deps.mailer.send({
+      ...quoteMail({
+        to: job.to,
+        companyName: s.company.name,
+        clientName: s.client.name,
+        label,
+        jobTitle: s.job.title,
+        total: formatMoney(s.totals.totalMinor, s.currency),
+        deposit: formatMoney(s.totals.depositMinor, s.currency),
+        validUntil: s.validUntil,
+        url,
+        message: job.message ?? undefined,
+        senderName: job.userName,
+      }),
+      attachments: [{ filename: `${label.replace(/\s+/g, "-")}.pdf`, content: pdf, contentType: "application/pdf" }],
+    });
+  } catch (error) {
+    return error instanceof Error ? error.message.slice(0, 400) : "the mail server refused the message";
+  }
+  const now = new Date();
+  await tx.update(Quote, { id: quote.id }, { status: "sent", sentAt: now, sentTo: job.to, sentById: job.userId, sendError: null, sendPendingAt: null, linkId: link.id, linkHash: link.hash });
+  // The earlier revisions' links now answer "superseded".
+  await tx.query(
+    `UPDATE quote SET superseded_at = $1 WHERE company_id = $2 AND number = $3 AND revision < $4 AND superseded_at IS NULL AND status NOT IN ('accepted', 'deposit paid')`,
+    [now, quote.companyId, quote.number, quote.revision],
+  );
+  await tx.query(`UPDATE job SET status = 'quoted', updated_at = now() WHERE id = $1 AND status = 'lead'`, [quote.jobId]);
+  await event(tx, quote, "sent", job.userName, `to ${job.to}`);
+  return null;
+}
+
+/**
+ * The queued send (the "quote-send" job): another attempt under the same locks. A quote sent or
+ * changed meanwhile is left alone; a failure with attempts left throws so the queue retries later;
+ * the last failure ends "send pending" with the error and a send_failed event.
+ */
+export async function runQueuedQuoteSend(deps: QuoteDeps, job: QuoteSendJob, attempt: { retryCount: number; retryLimit: number }): Promise<void> {
+  let retry: string | null = null;
+  await deps.db.transaction(async (tx) => {
+    const found = await tx.findOneBy(Quote, { id: job.quoteId, companyId: job.companyId });
+    if (!found) return;
+    await lockJobAndRevisions(tx, job.companyId, found.jobId, found.number);
+    const quote = await tx.findOneByOrFail(Quote, { id: job.quoteId });
+    if (quote.status !== "draft" || !quote.sendPendingAt) return;
+    try {
+      await assertSendable(tx, quote);
+    } catch (error) {
+      const why = error instanceof AppError ? error.message : "the quote can no longer be sent";
+      await tx.update(Quote, { id: quote.id }, { sendPendingAt: null, sendError: `Not sent: ${why}` });
+      await event(tx, quote, "send_failed", job.userName, why);
+      return;
+    }
+    const failure = await deliverQuote(deps, tx, quote, job);
+    if (!failure) return;
+    // The request that queued the job was attempt 1.
+    const attempts = attempt.retryCount + 2;
+    if (attempt.retryCount >= attempt.retryLimit) {
+      await tx.update(Quote, { id: quote.id }, { sendPendingAt: null, sendError: `The e-mail could not be sent after ${attempts} attempts: ${failure}` });
+      await event(tx, quote, "send_failed", job.userName, `gave up after ${attempts} attempts: ${failure}`);
+      return;
+    }
+    await tx.update(Quote, { id: quote.id }, { sendError: `The e-mail could not be sent yet (attempt ${attempts}): ${failure}` });
+    retry = failure;
+  });
+  if (retry) throw new Error(`quote ${job.quoteId}: ${retry}`);
 }
 
 export async function lockJobAndRevisions(tx: EntityManager, companyId: string, jobId: string, number: string) {

@@ -428,7 +428,7 @@ export const QuoteSnapshotSchema = z.object({
 export type QuoteSnapshot = z.infer<typeof QuoteSnapshotSchema>;
 
 export const QuoteEventSchema = z.object({
-  type: z.enum(["created", "sent", "send_failed", "viewed", "accepted", "declined", "expired", "link_revoked", "link_issued", "deposit_paid", "payment_flagged", "refunded"]),
+  type: z.enum(["created", "sent", "send_pending", "send_failed", "viewed", "accepted", "declined", "expired", "link_revoked", "link_issued", "deposit_paid", "payment_flagged", "refunded"]),
   at: z.string(),
   actor: z.string().nullable(),
   detail: z.string().nullable(),
@@ -453,6 +453,8 @@ export const QuoteSummarySchema = z.object({
   sentTo: z.string().nullable(),
   sentBy: z.string().nullable(),
   sendError: z.string().nullable(),
+  /** When the mail server first refused it; a queued job keeps trying until sent or it gives up. */
+  sendPendingSince: z.string().nullable(),
   viewedAt: z.string().nullable(),
   acceptedAt: z.string().nullable(),
   acceptedName: z.string().nullable(),

@@ -34,6 +34,7 @@ const summary = (id: string, label: string, extra: Record<string, unknown> = {})
   sentTo: "office@ridge.example",
   sentBy: "Ada Quill",
   sendError: null,
+  sendPendingSince: null,
   viewedAt: null,
   acceptedAt: null,
   acceptedName: null,

@@ -447,6 +447,7 @@ describe("the Estimate screen", () => {
       sentTo: null,
       sentBy: null,
       sendError: null,
+      sendPendingSince: null,
       viewedAt: null,
       acceptedAt: null,
       acceptedName: null,

@@ -372,6 +372,7 @@ describe("the Job page", () => {
       sentTo: null,
       sentBy: null,
       sendError: null,
+      sendPendingSince: null,
       viewedAt: null,
       acceptedAt: null,
       acceptedName: null,

@@ -38,6 +38,7 @@ function quote(extra: Partial<QuoteDetail> = {}): QuoteDetail {
     sentTo: null,
     sentBy: null,
     sendError: null,
+    sendPendingSince: null,
     viewedAt: null,
     acceptedAt: null,
     acceptedName: null,

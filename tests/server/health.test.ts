@@ -7,6 +7,7 @@ import { HealthStatus } from "../../shared/schemas/health.js";
 import { createApp } from "../../server/app.js";
 import { createDataSource } from "../../server/db/data-source.js";
 import { findFreePort } from "../../server/scripts/port-check.js";
+import { tcpRelay } from "../support/relay.js";
 import { openTestDb, testDatabaseUrl } from "../support/test-db.js";
 
 const packageVersion = JSON.parse(readFileSync("package.json", "utf8")).version;
@@ -78,31 +79,3 @@ describe("GET /api/health", () => {
     }
   });
 });
-
-/** A loopback TCP relay to another local port that can be opened and cut (dropping every connection). */
-function tcpRelay(listenPort: number, targetPort: number) {
-  let server: net.Server | undefined;
-  const sockets = new Set<net.Socket>();
-  return {
-    open: () =>
-      new Promise<void>((resolve) => {
-        server = net.createServer((client) => {
-          const upstream = net.connect(targetPort, "127.0.0.1");
-          for (const s of [client, upstream]) {
-            sockets.add(s);
-            s.on("error", () => {});
-            s.on("close", () => sockets.delete(s));
-          }
-          client.pipe(upstream).pipe(client);
-        });
-        server.listen(listenPort, "127.0.0.1", resolve);
-      }),
-    cut: () =>
-      new Promise<void>((resolve) => {
-        for (const s of sockets) s.destroy();
-        if (!server) return resolve();
-        server.close(() => resolve());
-        server = undefined;
-      }),
-  };
-}

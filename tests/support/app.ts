@@ -9,7 +9,9 @@ import type { PaymentsSettings } from "../../server/config/payments.js";
 import { connectToStripeFake } from "../../server/payments/local-fake.js";
 import { createPayments } from "../../server/payments/stripe-client.js";
 import { catcherMailer } from "./mail.js";
-import { openTestDb } from "./test-db.js";
+import { openTestDb, testDatabaseUrl } from "./test-db.js";
+import { JobQueue, uniqueQueuePrefix, type RetryPolicy } from "../../server/jobs/queue.js";
+import { startWorkers } from "../../server/jobs/workers.js";
 
 export interface TestApp {
   app: Express;
@@ -17,6 +19,8 @@ export interface TestApp {
   url: string;
   /** This app's account on the run's Stripe fake (its own key and webhook secret); null with payments off. */
   stripe: (PaymentsSettings & { apiBase: string }) | null;
+  /** This app's job queue (its own queue names), or null when the test turned jobs off. */
+  jobs: JobQueue | null;
   close(): Promise<void>;
 }
 
@@ -27,25 +31,35 @@ export const ROOMY_RATE_LIMIT: RateLimitSettings = { limit: 10_000, windowMs: 60
  * The app on an ephemeral loopback port, sending mail to the run's catcher.
  * The port is bound first, so the app's e-mailed links point at it.
  */
-export async function startTestApp(db: DataSource, options: Partial<AppOptions> = {}): Promise<TestApp> {
+export async function startTestApp(db: DataSource, options: Partial<AppOptions> & { jobRetry?: RetryPolicy } = {}): Promise<TestApp> {
+  const { jobRetry, ...appOptions } = options;
   const server: Server = createServer();
   await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  const mailer = catcherMailer();
+  const mailer = options.mailer ?? catcherMailer();
   // Payments through the run's Stripe fake unless the test says otherwise (payments: null = off).
   const stripe = options.payments === undefined ? ((await connectToStripeFake(inject("stripeFake").url, `${url}/api/webhooks/stripe`)) as PaymentsSettings & { apiBase: string }) : null;
-  const app = createApp({ db, publicUrl: url, mailer, authRateLimit: ROOMY_RATE_LIMIT, ...(stripe ? { payments: createPayments(stripe) } : {}), ...options });
+  // Background jobs on queues of this app's own (a prefix), retried after about 1, 2, 4 s, so
+  // one test file's workers never take another's jobs. jobs: null runs the app without them.
+  const dbUrl = (db.options as { url?: string }).url ?? testDatabaseUrl();
+  const jobs = options.jobs === undefined ? new JobQueue({ url: dbUrl, prefix: uniqueQueuePrefix(), retry: jobRetry ?? { retryLimit: 3, retryDelay: 1 }, pollingSeconds: 0.5 }) : options.jobs;
+  if (jobs && options.jobs === undefined) {
+    await jobs.start();
+    await startWorkers(jobs, { db, mailer, publicUrl: url, jobs });
+  }
+  const app = createApp({ db, publicUrl: url, mailer, authRateLimit: ROOMY_RATE_LIMIT, ...(stripe ? { payments: createPayments(stripe) } : {}), ...appOptions, jobs });
   server.on("request", app);
   return {
     app,
     url,
     stripe,
-    close: () =>
-      new Promise((resolve) => {
-        mailer.close();
-        server.closeAllConnections();
-        server.close(() => resolve());
-      }),
+    jobs,
+    close: async () => {
+      server.closeAllConnections();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+      if (jobs && options.jobs === undefined) await jobs.stop({ dropQueues: true, timeoutMs: 3000 });
+      mailer.close();
+    },
   };
 }
 

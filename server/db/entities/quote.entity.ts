@@ -70,6 +70,10 @@ export class Quote {
   @Column({ type: "varchar", length: 500, name: "send_error", nullable: true })
   sendError!: string | null;
 
+  /** The mail server did not take the e-mail; a queued job keeps trying until this is cleared. */
+  @Column({ type: "timestamptz", name: "send_pending_at", nullable: true })
+  sendPendingAt!: Date | null;
+
   @Column({ type: "timestamptz", name: "viewed_at", nullable: true })
   viewedAt!: Date | null;
 

@@ -178,7 +178,7 @@ describe("invitations: e-mailed, single use, seven days", () => {
 
   it("when the mail cannot be sent, answers 503 and saves no invitation", async () => {
     const noMail = createApp({ db: t.db, authRateLimit: { limit: 1000, windowMs: 60_000 } });
-    const owner = await signUpCompany({ app: noMail, url: "http://127.0.0.1:1", stripe: null, close: async () => {} });
+    const owner = await signUpCompany({ app: noMail, url: "http://127.0.0.1:1", stripe: null, jobs: null, close: async () => {} });
     const response = await owner.api.post("/api/invitations", { email: uniqueEmail("lost"), role: "estimator" });
     expect(response.status).toBe(503);
     expect(response.body.error.code).toBe("service_unavailable");

@@ -336,15 +336,44 @@ describe("estimates and quotes", () => {
       expect((await owner.api.get(`/api/jobs/${job.jobId}`)).body.status).toBe("won");
     });
 
-    it("a failed send answers 502 mail_failed and leaves a draft with the error; a retry sends it", async () => {
-      const failing = await startTestApp(t.db, {
-        mailer: {
-          send: async () => {
-            throw new Error("connection refused");
-          },
-          close() {},
-        } as never,
-      });
+    const refusingMailer = {
+      send: async () => {
+        throw new Error("connection refused");
+      },
+      close() {},
+    } as never;
+
+    it("a send the mail server refuses answers 202 'send pending': a draft with the error and a queued retry; Send again sends it", async () => {
+      const failing = await startTestApp(t.db, { mailer: refusingMailer });
+      try {
+        const owner = await pricedCompany(failing);
+        const job = await cabinJob(owner.api);
+        const q = await draftQuote(owner.api, job.jobId);
+        const pending = await owner.api.post(`/api/quotes/${q.id}/send`, { to: job.clientEmail });
+        expect(pending.status).toBe(202);
+        expect(pending.body).toMatchObject({ status: "draft", sentAt: null, linkActive: false });
+        expect(pending.body.sendPendingSince).not.toBeNull();
+        expect(pending.body.sendError).toContain("connection refused");
+        expect(pending.body.events.map((e: { type: string }) => e.type)).toEqual(["created", "send_pending"]);
+        expect((await owner.api.get(`/api/jobs/${job.jobId}`)).body.status).toBe("lead");
+        // Pressing Send again while pending tries again at once and queues nothing more.
+        const again = await owner.api.post(`/api/quotes/${q.id}/send`, { to: job.clientEmail });
+        expect(again.status).toBe(202);
+        expect(again.body.events.map((e: { type: string }) => e.type)).toEqual(["created", "send_pending"]);
+
+        // the same person through the app with a working mailer
+        const retry = new ApiClient(t.app.app);
+        expect((await retry.post("/api/auth/sign-in", { email: owner.email, password: TEST_PASSWORD })).status).toBe(200);
+        await send(retry, q.id, job.clientEmail, t.app.url);
+        const after = await retry.get(`/api/quotes/${q.id}`);
+        expect(after.body).toMatchObject({ status: "sent", sendError: null, sendPendingSince: null });
+      } finally {
+        await failing.close();
+      }
+    });
+
+    it("without a job queue, a refused send answers 502 mail_failed and leaves a draft with the error", async () => {
+      const failing = await startTestApp(t.db, { mailer: refusingMailer, jobs: null });
       try {
         const owner = await pricedCompany(failing);
         const job = await cabinJob(owner.api);
@@ -354,19 +383,9 @@ describe("estimates and quotes", () => {
         expect(failed.body.error.code).toBe("mail_failed");
         expect(failed.body.error.message).toContain("connection refused");
         const detail = await owner.api.get(`/api/quotes/${q.id}`);
-        expect(detail.body.status).toBe("draft");
+        expect(detail.body).toMatchObject({ status: "draft", sentAt: null, linkActive: false, sendPendingSince: null });
         expect(detail.body.sendError).toContain("connection refused");
-        expect(detail.body.sentAt).toBeNull();
-        expect(detail.body.linkActive).toBe(false);
         expect(detail.body.events.map((e: { type: string }) => e.type)).toEqual(["created", "send_failed"]);
-        expect((await owner.api.get(`/api/jobs/${job.jobId}`)).body.status).toBe("lead");
-
-        // the same person through the app with a working mailer
-        const retry = new ApiClient(t.app.app);
-        expect((await retry.post("/api/auth/sign-in", { email: owner.email, password: TEST_PASSWORD })).status).toBe(200);
-        await send(retry, q.id, job.clientEmail, t.app.url);
-        const after = await retry.get(`/api/quotes/${q.id}`);
-        expect(after.body).toMatchObject({ status: "sent", sendError: null });
       } finally {
         await failing.close();
       }

@@ -7,6 +7,7 @@ import { quotesKey } from "./get-quote";
 export const getJobQuotes = (jobId: string, signal?: AbortSignal) => apiRequest(`/jobs/${encodeURIComponent(jobId)}/quotes`, QuoteListSchema, { signal });
 
 export const jobQuotesQueryOptions = (jobId: string) =>
-  queryOptions({ queryKey: [...quotesKey, "job", jobId], queryFn: ({ signal }) => getJobQuotes(jobId, signal) });
+  // staleTime 0: the client answers and pays from their own browser; fetch again each time the job opens.
+  queryOptions({ queryKey: [...quotesKey, "job", jobId], queryFn: ({ signal }) => getJobQuotes(jobId, signal), staleTime: 0 });
 
 export const useJobQuotes = (jobId: string) => useQuery(jobQuotesQueryOptions(jobId));

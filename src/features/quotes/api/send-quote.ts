@@ -6,7 +6,9 @@ import { dashboardKey } from "../../dashboard/api/get-dashboard";
 import { jobQuotesQueryOptions } from "./get-job-quotes";
 import { quoteQueryOptions } from "./get-quote";
 
-// Idempotent: a sent quote is not sent again. 502 mail_failed: the quote stays a draft with `sendError`.
+// Idempotent: a sent quote is not sent again. 202: the mail server did not take it and the server
+// keeps trying (`sendPendingSince`). 502 mail_failed (a server without a job queue): the quote stays
+// a draft with `sendError`.
 export const sendQuote = ({ quoteId, input }: { quoteId: string; input: z.input<typeof SendQuoteInput> }) =>
   apiRequest(`/quotes/${encodeURIComponent(quoteId)}/send`, QuoteDetailSchema, { method: "POST", body: input });
 

@@ -80,6 +80,8 @@ export function JobQuotesSection({ jobId }: { jobId: string }) {
                         {formatDay(quote.sentAt)}
                         {quote.sentTo ? <span className="block text-xs text-ink-500">{quote.sentTo}</span> : null}
                       </>
+                    ) : quote.sendPendingSince ? (
+                      <span className="font-medium text-copper-800">Send pending: retrying</span>
                     ) : quote.sendError ? (
                       <span className="font-medium text-over-700">Not sent: the e-mail failed</span>
                     ) : (

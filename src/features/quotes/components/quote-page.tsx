@@ -17,7 +17,7 @@ import { ClientLinkDialog } from "./client-link-dialog";
 import { DropSummary } from "./drop-summary";
 import { QuoteEvents } from "./quote-events";
 import { QuoteLines, QuoteTotals } from "./quote-lines";
-import { QuoteStatusBadge, SupersededBadge } from "./quote-status";
+import { QuoteStatusBadge, SendPendingBadge, SupersededBadge } from "./quote-status";
 import { SendQuoteDialog } from "./send-quote-dialog";
 
 const term = "text-xs font-medium uppercase tracking-wide text-ink-500";
@@ -100,6 +100,7 @@ function QuoteView({ quote, canWrite, canRefund }: { quote: QuoteDetail; canWrit
             <div className="flex flex-wrap items-center gap-2">
               <h1 className="text-xl font-semibold tracking-tight text-ink-900">{quote.label}</h1>
               <QuoteStatusBadge status={quote.status} />
+              {quote.sendPendingSince ? <SendPendingBadge /> : null}
               {quote.superseded ? <SupersededBadge /> : null}
             </div>
             <p className="text-sm text-ink-600">
@@ -120,7 +121,17 @@ function QuoteView({ quote, canWrite, canRefund }: { quote: QuoteDetail; canWrit
             ) : null}
           </div>
         </header>
-        {quote.sendError ? <FormAlert message={`The last attempt to send this quote failed: ${quote.sendError}`} /> : null}
+        {quote.sendPendingSince ? (
+          <div role="status" className="rounded-md border border-copper-300 bg-copper-50 px-3 py-2 text-sm text-copper-900">
+            <p className="font-medium">Send pending since {formatWhen(quote.sendPendingSince)}</p>
+            <p>
+              The mail server has not taken the e-mail yet{quote.sendError ? ` (${quote.sendError.replace(/^The e-mail could not be sent yet(?: \(attempt \d+\))?: /, "")})` : ""}. Runwright keeps trying, waiting longer
+              each time, and marks the quote sent once it goes. Send to client tries again now.
+            </p>
+          </div>
+        ) : quote.sendError ? (
+          <FormAlert message={`The last attempt to send this quote failed: ${quote.sendError}`} />
+        ) : null}
         {quote.superseded ? <p className="text-sm text-ink-600">A later revision of this quote exists; the client's link to this one no longer opens it.</p> : null}
         <dl className="grid gap-x-6 gap-y-3 text-sm sm:grid-cols-2 lg:grid-cols-4">
           <Detail label="Client">

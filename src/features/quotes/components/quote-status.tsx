@@ -19,6 +19,15 @@ export function QuoteStatusBadge({ status, className }: { status: QuoteStatus; c
   return <span className={cn(badgeBase, BADGE_CLASS[status], className)}>{QUOTE_STATUS_LABELS[status]}</span>;
 }
 
+/** The mail server has not taken the e-mail yet; the server keeps trying. */
+export function SendPendingBadge({ className }: { className?: string }) {
+  return (
+    <span title="The e-mail is waiting for the mail server; Runwright keeps trying" className={cn(badgeBase, "border-dashed border-copper-400 bg-copper-50 text-copper-800", className)}>
+      Send pending
+    </span>
+  );
+}
+
 /** A later revision of the same quote exists. */
 export function SupersededBadge({ className }: { className?: string }) {
   return (

@@ -15,6 +15,7 @@ export const QUOTE_STATUS_LABELS: Record<QuoteStatus, string> = {
 export const QUOTE_EVENT_LABELS: Record<string, string> = {
   created: "Quote created",
   sent: "Sent to the client",
+  send_pending: "Send pending: the mail server did not take it; retrying",
   send_failed: "Could not be sent",
   viewed: "Opened by the client",
   accepted: "Accepted by the client",
