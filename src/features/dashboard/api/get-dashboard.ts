@@ -6,6 +6,7 @@ export const getDashboard = (signal?: AbortSignal) => apiRequest("/dashboard", D
 
 export const dashboardKey = ["dashboard"] as const;
 
-export const dashboardQueryOptions = () => queryOptions({ queryKey: dashboardKey, queryFn: ({ signal }) => getDashboard(signal) });
+// staleTime 0: clients open, accept and pay quotes from their own browsers; fetch again each time the dashboard opens.
+export const dashboardQueryOptions = () => queryOptions({ queryKey: dashboardKey, queryFn: ({ signal }) => getDashboard(signal), staleTime: 0 });
 
 export const useDashboard = () => useQuery(dashboardQueryOptions());

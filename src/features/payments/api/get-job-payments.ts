@@ -9,6 +9,7 @@ export const getJobPayments = (jobId: string, signal?: AbortSignal) => apiReques
 export const paymentsKey = ["payments"] as const;
 
 export const jobPaymentsQueryOptions = (jobId: string) =>
-  queryOptions({ queryKey: [...paymentsKey, "job", jobId], queryFn: ({ signal }) => getJobPayments(jobId, signal) });
+  // staleTime 0: deposits arrive from the client's browser (through the webhook); fetch again each time the job opens.
+  queryOptions({ queryKey: [...paymentsKey, "job", jobId], queryFn: ({ signal }) => getJobPayments(jobId, signal), staleTime: 0 });
 
 export const useJobPayments = (jobId: string) => useQuery(jobPaymentsQueryOptions(jobId));
