@@ -36,6 +36,27 @@ export interface RunningServer {
   stop(): Promise<void>;
 }
 
+/**
+ * Runs the pending migrations under a PostgreSQL advisory lock, so instances starting together on one
+ * database migrate one after another (the second finds nothing left to run).
+ */
+async function migrateOnce(db: DataSource) {
+  const runner = db.createQueryRunner();
+  await runner.connect();
+  try {
+    await runner.query("SELECT pg_advisory_lock($1)", [MIGRATION_LOCK]);
+    try {
+      return await db.runMigrations({ transaction: "all" });
+    } finally {
+      await runner.query("SELECT pg_advisory_unlock($1)", [MIGRATION_LOCK]);
+    }
+  } finally {
+    await runner.release();
+  }
+}
+/** Any fixed number of ours: the key of the migration lock. */
+const MIGRATION_LOCK = 4_179_522_031;
+
 /** Connects, migrates, seeds, builds the app and listens: the server's only side effects. */
 export async function startServer({ env, databaseUrl, clientDir, seed = true, dataDir, mailCatcherPort, payments = null }: StartOptions): Promise<RunningServer> {
   const logger = pino({ level: env.LOG_LEVEL });
@@ -44,9 +65,9 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true, da
   const mailer = createMailer(smtpSettingsFromEnv(env, mailCatcherPort));
   const db = createDataSource({ url: databaseUrl, connectTimeoutMs: env.DB_CONNECT_TIMEOUT_MS });
   await db.initialize();
-  const jobs = new JobQueue({ url: databaseUrl, logger });
+  const jobs = new JobQueue({ url: databaseUrl, logger, retry: { retryLimit: env.JOB_RETRY_LIMIT, retryDelay: env.JOB_RETRY_DELAY_SECONDS }, pollingSeconds: env.JOB_POLL_SECONDS });
   try {
-    const ran = await db.runMigrations({ transaction: "all" });
+    const ran = await migrateOnce(db);
     if (ran.length > 0) logger.info({ migrations: ran.map((m) => m.name) }, "migrations ran");
     if (seed) await seedDemo(db);
     // Parse the PDF fonts now, so the first quote PDF does not pay for it (about 1 s here).

@@ -39,6 +39,10 @@ const EnvSchema = z.object({
   STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_[A-Za-z0-9_]+$/, "must look like whsec_…").optional(),
   /** Another Stripe-compatible API (a fake) instead of Stripe itself, e.g. http://127.0.0.1:12111. Refused in production. */
   STRIPE_API_BASE: z.string().url().optional(),
+  /** Background jobs (queued e-mails): retries after the first failure, the first wait in seconds (then about doubling), and how often an idle worker looks for work. */
+  JOB_RETRY_LIMIT: z.coerce.number().int().min(0).max(20).default(6),
+  JOB_RETRY_DELAY_SECONDS: z.coerce.number().int().min(1).max(3600).default(30),
+  JOB_POLL_SECONDS: z.coerce.number().min(0.5).max(60).default(2),
   /** Port of the local Stripe fake that npm start runs when STRIPE_SECRET_KEY is unset. */
   RUNWRIGHT_STRIPE_FAKE_PORT: port.default(12111),
 });

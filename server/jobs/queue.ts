@@ -31,7 +31,7 @@ export interface JobQueueOptions {
    */
   prefix?: string;
   retry?: RetryPolicy;
-  /** How often an idle worker looks for work (pg-boss's minimum is 0.5 s). */
+  /** How often an idle worker looks for work (pg-boss's minimum is 0.5 s); 2 s by default. */
   pollingSeconds?: number;
 }
 
@@ -89,7 +89,8 @@ export class JobQueue {
   async enqueue(tx: EntityManager, kind: JobKind, data: object): Promise<string> {
     const db: PgBoss.Db = { executeSql: async (text, values) => ({ rows: await tx.query(text, values) }) };
     // The first queued attempt waits like a retry: whatever just failed is given time to recover.
-    const id = await this.boss.send(this.name(kind), data, { db, startAfter: this.retry.retryDelay });
+    // The policy goes with each job too, so a changed setting applies to the next job (the queue keeps the one it was made with).
+    const id = await this.boss.send(this.name(kind), data, { db, startAfter: this.retry.retryDelay, retryLimit: this.retry.retryLimit, retryDelay: this.retry.retryDelay, retryBackoff: true });
     if (!id) throw new Error(`The ${kind} job was not queued`);
     return id;
   }
