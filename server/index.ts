@@ -74,7 +74,8 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true, da
     loadFonts();
     await jobs.start();
     const publicBase = publicUrl(env);
-    await startWorkers(jobs, { db, mailer, publicUrl: publicBase, jobs });
+    const stripe = payments ? createPayments(payments) : null;
+    await startWorkers(jobs, { db, mailer, publicUrl: publicBase, jobs, logger, payments: stripe });
     const app = createApp({
       db,
       clientDir,
@@ -86,7 +87,7 @@ export async function startServer({ env, databaseUrl, clientDir, seed = true, da
       publicUrl: publicBase,
       mailer,
       pruneSessions: true,
-      payments: payments ? createPayments(payments) : null,
+      payments: stripe,
       jobs,
     });
     const server = await listen(app, env.HOST, env.PORT);

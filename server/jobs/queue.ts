@@ -1,7 +1,8 @@
 // Background jobs in PostgreSQL, through pg-boss: work that must not be lost when a request fails
 // half-way or the process stops — today the quote e-mails the mail server did not take. pg-boss keeps
 // its tables in its own schema (`pgboss`), which it creates and migrates itself on start; our
-// TypeORM migrations never touch it. Jobs are fetched with SKIP LOCKED, so when several app
+// TypeORM migrations never touch it. Today: the quote e-mails the mail server did not take, and
+// deposit receipts (queued with the payment, sent right away, and again later only if they did not go). Jobs are fetched with SKIP LOCKED, so when several app
 // processes share the database each job is done by one of them.
 import { randomBytes } from "node:crypto";
 import PgBoss from "pg-boss";
@@ -9,7 +10,7 @@ import type { Logger } from "pino";
 import type { EntityManager } from "typeorm";
 
 /** The queues of the app, by job kind. */
-export const JOB_KINDS = ["quote-send"] as const;
+export const JOB_KINDS = ["quote-send", "payment-receipt"] as const;
 export type JobKind = (typeof JOB_KINDS)[number];
 
 export interface RetryPolicy {

@@ -6,6 +6,7 @@ import { formatMoney } from "../../shared/money.js";
 import type { DepositTotals, Payment as PaymentView, PublicDeposit, RefundInput } from "../../shared/schemas/payments.js";
 import { DepositCheckout, Job, Payment, PaymentRefund, Quote, StripeEvent, User } from "../db/entities/index.js";
 import { AppError } from "../errors.js";
+import type { JobQueue } from "../jobs/queue.js";
 import type { Mailer } from "../mail/mailer.js";
 import { depositNoticeMail, depositReceiptMail } from "../mail/templates.js";
 import type { Payments } from "../payments/stripe-client.js";
@@ -20,6 +21,8 @@ export interface PaymentDeps {
   logger: Logger;
   /** Stripe; null when online deposits are not set up. */
   payments: Payments | null;
+  /** Background jobs: a receipt the mail server refused is sent again later. */
+  jobs?: JobQueue | null;
 }
 
 // ---------------------------------------------------------------- presenting
@@ -343,7 +346,9 @@ async function recordRefund(tx: EntityManager, refund: Stripe.Refund, createdByI
 /**
  * One verified event, exactly once: its id goes into stripe_event first (a repeated delivery
  * finds it there and changes nothing), and what it records is written in the same transaction.
- * Mail goes out after the commit; a mail failure is kept on the payment, never undoes it.
+ * Mail goes out after the commit; a mail failure is kept on the payment, never undoes it. The
+ * receipt also gets a job queued in the same transaction, which sends it later if it has not gone
+ * by then (the mail server was down, or the process stopped right after the commit).
  */
 export async function handleStripeEvent(deps: PaymentDeps, event: Stripe.Event): Promise<{ duplicate: boolean; outcome: string }> {
   const result = await deps.db.transaction(async (tx): Promise<Outcome & { duplicate: boolean }> => {
@@ -382,6 +387,7 @@ export async function handleStripeEvent(deps: PaymentDeps, event: Stripe.Event):
         handled = { outcome: "ignored: not used" };
     }
     await tx.update(StripeEvent, { id: event.id }, { outcome: handled.outcome });
+    if (handled.notify && deps.jobs) await deps.jobs.enqueue(tx, "payment-receipt", { paymentId: handled.notify });
     return { duplicate: false, ...handled };
   });
   // After the commit: a failure here is logged and kept on the payment, never fails the webhook.
@@ -430,37 +436,12 @@ export async function receiptPdf(manager: EntityManager, payment: Payment): Prom
 
 /** The client's receipt (with its PDF) for a deposit, and a notice to whoever sent the quote. */
 async function sendPaymentMails(deps: PaymentDeps, paymentId: string): Promise<void> {
+  await sendReceipt(deps, paymentId);
   const payment = await deps.db.manager.findOneByOrFail(Payment, { id: paymentId });
   const quote = await deps.db.manager.findOneByOrFail(Quote, { id: payment.quoteId });
   const { company, client, job } = quote.snapshot;
   const amount = formatMoney(payment.amountMinor, payment.currency);
   const label = quoteLabel(quote);
-  // The receipt goes where the quote went (the client's own address for this quote).
-  const clientEmail = quote.sentTo ?? client.email;
-  if (payment.status === "paid" && clientEmail) {
-    try {
-      const pdf = await receiptPdf(deps.db.manager, payment);
-      await deps.mailer.send({
-        ...depositReceiptMail({
-          to: clientEmail,
-          companyName: company.name,
-          companyContact: [company.contactEmail, company.phone].filter(Boolean).join(" · "),
-          clientName: client.name,
-          label,
-          jobTitle: job.title,
-          amount,
-          paidAt: payment.paidAt,
-          receiptNumber: payment.receiptNumber,
-          balance: formatMoney(Math.max(quote.totalMinor - payment.amountMinor, 0), quote.currency),
-        }),
-        attachments: [{ filename: `receipt-${payment.receiptNumber}.pdf`, content: pdf, contentType: "application/pdf" }],
-      });
-      await deps.db.manager.update(Payment, { id: payment.id }, { receiptSentAt: new Date(), receiptError: null });
-    } catch (error) {
-      deps.logger.warn({ err: error }, "could not e-mail a deposit receipt");
-      await deps.db.manager.update(Payment, { id: payment.id }, { receiptError: (error instanceof Error ? error.message : String(error)).slice(0, 500) }).catch(() => {});
-    }
-  }
   const sender = quote.sentById ? await deps.db.manager.findOneBy(User, { id: quote.sentById }) : null;
   const to = sender?.email ?? company.contactEmail;
   if (!to) return;
@@ -478,6 +459,55 @@ async function sendPaymentMails(deps: PaymentDeps, paymentId: string): Promise<v
       }),
     )
     .catch((error: unknown) => deps.logger.warn({ err: error }, "could not e-mail the deposit notice"));
+}
+
+/**
+ * E-mails the receipt of a paid deposit unless it went already, with the payment row locked so the
+ * send right after the webhook and the queued job never both send it. Returns why it failed, or
+ * null (sent now, sent before, or nothing to send).
+ */
+export async function sendReceipt(deps: PaymentDeps, paymentId: string): Promise<string | null> {
+  return deps.db.transaction(async (tx) => {
+    const [locked] = (await tx.query(`SELECT id FROM payment WHERE id = $1 FOR UPDATE`, [paymentId])) as unknown[];
+    if (!locked) return null;
+    const payment = await tx.findOneByOrFail(Payment, { id: paymentId });
+    const quote = await tx.findOneByOrFail(Quote, { id: payment.quoteId });
+    const { company, client, job } = quote.snapshot;
+    // The receipt goes where the quote went (the client's own address for this quote).
+    const clientEmail = quote.sentTo ?? client.email;
+    if (payment.status !== "paid" || !clientEmail || payment.receiptSentAt) return null;
+    try {
+      const pdf = await receiptPdf(tx, payment);
+      await deps.mailer.send({
+        ...depositReceiptMail({
+          to: clientEmail,
+          companyName: company.name,
+          companyContact: [company.contactEmail, company.phone].filter(Boolean).join(" · "),
+          clientName: client.name,
+          label: quoteLabel(quote),
+          jobTitle: job.title,
+          amount: formatMoney(payment.amountMinor, payment.currency),
+          paidAt: payment.paidAt,
+          receiptNumber: payment.receiptNumber,
+          balance: formatMoney(Math.max(quote.totalMinor - payment.amountMinor, 0), quote.currency),
+        }),
+        attachments: [{ filename: `receipt-${payment.receiptNumber}.pdf`, content: pdf, contentType: "application/pdf" }],
+      });
+    } catch (error) {
+      deps.logger.warn({ err: error }, "could not e-mail a deposit receipt");
+      const why = (error instanceof Error ? error.message : String(error)).slice(0, 500);
+      await tx.update(Payment, { id: payment.id }, { receiptError: why });
+      return why;
+    }
+    await tx.update(Payment, { id: payment.id }, { receiptSentAt: new Date(), receiptError: null });
+    return null;
+  });
+}
+
+/** The queued receipt (the "payment-receipt" job): a failure throws, so the queue tries again later. */
+export async function runQueuedReceipt(deps: PaymentDeps, job: { paymentId: string }): Promise<void> {
+  const failure = await sendReceipt(deps, job.paymentId);
+  if (failure) throw new Error(`receipt of payment ${job.paymentId}: ${failure}`);
 }
 
 // ---------------------------------------------------------------- refunds (Owner)

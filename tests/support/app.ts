@@ -12,6 +12,7 @@ import { catcherMailer } from "./mail.js";
 import { openTestDb, testDatabaseUrl } from "./test-db.js";
 import { JobQueue, uniqueQueuePrefix, type RetryPolicy } from "../../server/jobs/queue.js";
 import { startWorkers } from "../../server/jobs/workers.js";
+import { pino } from "pino";
 
 export interface TestApp {
   app: Express;
@@ -43,11 +44,12 @@ export async function startTestApp(db: DataSource, options: Partial<AppOptions> 
   // one test file's workers never take another's jobs. jobs: null runs the app without them.
   const dbUrl = (db.options as { url?: string }).url ?? testDatabaseUrl();
   const jobs = options.jobs === undefined ? new JobQueue({ url: dbUrl, prefix: uniqueQueuePrefix(), retry: jobRetry ?? { retryLimit: 3, retryDelay: 1 }, pollingSeconds: 0.5 }) : options.jobs;
+  const payments = appOptions.payments !== undefined ? appOptions.payments : stripe ? createPayments(stripe) : null;
   if (jobs && options.jobs === undefined) {
     await jobs.start();
-    await startWorkers(jobs, { db, mailer, publicUrl: url, jobs });
+    await startWorkers(jobs, { db, mailer, publicUrl: url, jobs, logger: appOptions.logger ?? pino({ level: "silent" }), payments });
   }
-  const app = createApp({ db, publicUrl: url, mailer, authRateLimit: ROOMY_RATE_LIMIT, ...(stripe ? { payments: createPayments(stripe) } : {}), ...appOptions, jobs });
+  const app = createApp({ db, publicUrl: url, mailer, authRateLimit: ROOMY_RATE_LIMIT, ...appOptions, payments, jobs });
   server.on("request", app);
   return {
     app,

@@ -7,11 +7,12 @@ import { Quote } from "../../../server/db/entities/index.js";
 import { createMailer } from "../../../server/mail/mailer.js";
 import { findFreePort } from "../../../server/scripts/port-check.js";
 import { signUpCompany, uniqueEmail } from "../../support/accounts.js";
-import type { ApiClient } from "../../support/api.js";
 import { startTestApp, type TestApp } from "../../support/app.js";
 import { createJobWork } from "../../support/jobs.js";
 import { mailsTo, waitForMail } from "../../support/mail.js";
-import { CABIN_PRICES } from "../../support/quotes.js";
+import { CABIN_PRICES, createQuoteWork } from "../../support/quotes.js";
+import { ApiClient } from "../../support/api.js";
+import { CARDS, payOnPage } from "../../support/stripe.js";
 import { tcpRelay, type Relay } from "../../support/relay.js";
 import { openTestDb } from "../../support/test-db.js";
 
@@ -107,5 +108,36 @@ describe("a quote sent while the mail server is down", () => {
     } finally {
       await quick.close();
     }
+  });
+
+  it("a deposit receipt the mail server refused is sent later by its queued job, once", async () => {
+    const owner = await signUpCompany(app);
+    await relay.open();
+    const work = await createJobWork(owner.api);
+    const q = await createQuoteWork(owner.api, work.jobId, app.url);
+    const client = new ApiClient(app.app);
+    expect((await client.post(`/api/quote-links/${q.token}/accept`, { name: "Receipt Client", agree: true })).status).toBe(200);
+    await relay.refuse(SERVICE_NOT_AVAILABLE);
+    const checkout = await client.post(`/api/quote-links/${q.token}/deposit`);
+    expect(checkout.status).toBe(200);
+    expect((await payOnPage(checkout.body.url, CARDS.success)).status).toBe(303);
+    // Recorded at once; the receipt failed and says why.
+    const [failed] = await vi.waitFor(
+      async () => {
+        const items = (await owner.api.get(`/api/jobs/${work.jobId}/payments`)).body.items as Array<{ status: string; receiptSentAt: string | null; receiptError: string | null }>;
+        expect(items[0]?.receiptError).toMatch(/421|Service not available/);
+        return items;
+      },
+      { timeout: 10_000, interval: 100 },
+    );
+    expect(failed.status).toBe("paid");
+    expect(failed.receiptSentAt).toBeNull();
+    await relay.open();
+    await vi.waitFor(async () => expect((await owner.api.get(`/api/jobs/${work.jobId}/payments`)).body.items[0].receiptSentAt).not.toBeNull(), { timeout: 20_000, interval: 200 });
+    const receipts = async () => (await mailsTo(q.clientEmail)).filter((m) => /receipt/i.test(m.subject));
+    await vi.waitFor(async () => expect(await receipts()).toHaveLength(1), { timeout: 5_000, interval: 100 });
+    await new Promise((resolve) => setTimeout(resolve, 2000));
+    expect(await receipts()).toHaveLength(1);
+    expect((await owner.api.get(`/api/jobs/${work.jobId}/payments`)).body.items[0].receiptError).toBeNull();
   });
 });
