@@ -482,6 +482,8 @@ describe("the Estimate screen", () => {
       ...base(),
       [ESTIMATE]: { body: e },
       [CREATE_QUOTE]: () => (refuse ? apiError(422, "unprocessable", "The estimate has lines without a price.") : { status: 201, body: created }),
+      // The quote screen shows the created quote at once and reads it again (quotes change from the client's side).
+      [`GET /api/quotes/${QUOTE_ID}`]: { body: created },
     });
     const router = renderAt(`/jobs/${JOB_ID}/estimate`);
     fireEvent.click(await screen.findByRole("button", { name: "Create quote" }));
