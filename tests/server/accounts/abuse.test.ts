@@ -102,7 +102,23 @@ describe("every limited route: the 11th request within 15 minutes gets 429", () 
     ["/api/auth/reset-password", () => ({ token: NO_SUCH_TOKEN, password: TEST_PASSWORD }), "ip"],
     ["/api/invitations/lookup", () => ({ token: NO_SUCH_TOKEN }), "ip"],
     ["/api/invitations/accept", () => ({ token: NO_SUCH_TOKEN, name: "N", password: TEST_PASSWORD }), "ip"],
+    // The client's answers and "Pay deposit": counted before the token is looked at.
+    [`/api/quote-links/${NO_SUCH_TOKEN}/accept`, () => ({ name: "N", agree: true }), "ip"],
+    [`/api/quote-links/${NO_SUCH_TOKEN}/decline`, () => ({ reason: "R" }), "ip"],
+    [`/api/quote-links/${NO_SUCH_TOKEN}/deposit`, () => ({}), "ip"],
   ];
+
+  it("has a row for every route that has a rate limiter", async () => {
+    const { rateLimitedRoutes } = await import("../hostile/route-walk.js");
+    const app = await startTestApp(db, { authRateLimit: AUTH_RATE_LIMIT });
+    try {
+      const limited = rateLimitedRoutes(app.app).map((key) => key.replace(":token", NO_SUCH_TOKEN));
+      expect(limited.length).toBeGreaterThanOrEqual(9);
+      expect(limited.filter((key) => !LIMITED.some(([route]) => key === `POST ${route}`)), "limited routes missing from LIMITED").toEqual([]);
+    } finally {
+      await app.close();
+    }
+  });
 
   for (const [route, body, counted] of LIMITED) {
     it(`${route}, counted by ${counted}`, async () => {

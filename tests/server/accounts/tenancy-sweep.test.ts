@@ -112,6 +112,20 @@ describe("tenancy sweep: a member of company B never reaches company A's resourc
     expect((await b.owner.api.get("/api/auth/session")).body.company.id).toBe(b.companyId);
   });
 
+  it("every signed-in GET route without an id (lists, exports, settings, dashboard, logo) shows B nothing of A's", async () => {
+    const routes = listRoutes(t.app.app).filter((r) => r.path.startsWith("/api") && r.method === "GET" && r.params.length === 0 && r.access !== "public");
+    expect(routes.length).toBeGreaterThan(10);
+    // A's ids, and a SKU only A's price list holds (B has no quote, so no prices).
+    const marks = [a.companyId, a.owner.userId, a.estimator.userId, a.installer.userId, a.spare.userId, a.invitationId, ...Object.values(a.work), quoteWorkOfA.priceItemId, quoteWorkOfA.quoteId, quoteWorkOfA.paymentId, "T-CU-16"];
+    expect((await a.owner.api.get("/api/price-list/export.csv")).text).toContain("T-CU-16");
+    for (const route of routes) {
+      const response = await b.owner.api.get(route.path);
+      expect(response.status, route.path).toBeLessThan(500);
+      const text = response.text ?? Buffer.from(response.body ?? "").toString("latin1");
+      for (const mark of marks) expect(text, `${route.path} showed A's ${mark}`).not.toContain(mark);
+    }
+  });
+
   it("every list answers only the session's company", async () => {
     const members = await b.owner.api.get("/api/members");
     const aIds = [a.owner.userId, a.estimator.userId, a.installer.userId, a.spare.userId];
