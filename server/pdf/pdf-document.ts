@@ -6,6 +6,7 @@
 // or frame is ever split by pdfkit in the middle of drawing it.
 import PDFDocument from "pdfkit";
 import type { QuoteSnapshot } from "../../shared/schemas/estimates.js";
+import { checkImage, LOGO_IMAGES } from "../middleware/upload.js";
 import { FONT, registerFonts } from "./fonts.js";
 
 type Doc = PDFKit.PDFDocument;
@@ -263,11 +264,21 @@ export interface Letterhead {
   facts: readonly string[];
 }
 
-/** Decodes the company's logo; null when there is none or pdfkit cannot read it. */
+/**
+ * Decodes the company's logo; null when there is none, pdfkit cannot read it, or its header claims
+ * more pixels than a logo upload accepts (one stored before that check, or in an older quote's
+ * snapshot): pdfkit would unpack every pixel.
+ */
 function logoBytes(logo: QuoteSnapshot["company"]["logo"]): Buffer | null {
   if (!logo || !/^image\/(png|jpe?g)$/i.test(logo.mediaType)) return null;
   const bytes = Buffer.from(logo.base64, "base64");
-  return bytes.length > 0 ? bytes : null;
+  if (bytes.length === 0) return null;
+  try {
+    if (!checkImage(bytes, LOGO_IMAGES)) return null;
+  } catch {
+    return null;
+  }
+  return bytes;
 }
 
 export function drawLetterhead(doc: Doc, head: Letterhead): void {

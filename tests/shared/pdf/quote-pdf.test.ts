@@ -11,6 +11,7 @@ import type { QuoteSnapshot } from "../../../shared/schemas/estimates.js";
 import { renderCutListPdf } from "../../../server/pdf/cut-list-pdf.js";
 import { renderQuotePdf } from "../../../server/pdf/quote-pdf.js";
 import { largeSnapshot, sampleSnapshot } from "../../support/quote-snapshot.js";
+import { pngClaiming } from "../../server/hostile/hostile-files.js";
 
 const PDFTOTEXT = "/usr/bin/pdftotext";
 const PDFINFO = "/usr/bin/pdfinfo";
@@ -173,6 +174,25 @@ describe("the quote PDF", () => {
     expect(line).toContain("96.4 A");
     expect(lineWith(text, "Dock post → Dock light string")).toContain("65 ft");
     expect(text).not.toContain("mm2");
+  });
+});
+
+describe("the quote PDF's logo", () => {
+  // pdfinfo has no image count; pdfkit writes each embedded image as an XObject of subtype /Image.
+  const images = (pdf: Buffer) => (pdf.toString("latin1").match(/\/Subtype \/Image/g) ?? []).length;
+
+  it("prints the company's logo", async () => {
+    expect(images(await renderQuotePdf(sampleSnapshot(), { label: LABEL, acceptUrl: null }))).toBeGreaterThan(0);
+  });
+
+  it("leaves out a stored logo whose header claims more pixels than an upload may have, rather than unpacking it", async () => {
+    const snapshot = sampleSnapshot();
+    // A PNG header claiming 100,000 × 100,000 pixels (stored before uploads checked the size, or in an old snapshot).
+    snapshot.company.logo = { mediaType: "image/png", base64: pngClaiming(100_000, 100_000).toString("base64") };
+    const pdf = await renderQuotePdf(snapshot, { label: LABEL, acceptUrl: null });
+    expect(pdf.subarray(0, 5).toString()).toBe("%PDF-");
+    expect(images(pdf)).toBe(0);
+    expect(layoutText(pdf)).toContain(snapshot.company.name);
   });
 });
 
