@@ -19,7 +19,7 @@
 import { z } from "zod";
 import { ampacity, conductorResistance, METRES_PER_FOOT, normalizeSize, sizeInfo, smallConductorFuseLimit, type Material } from "./conductors.js";
 import { type CompiledSystem, compileSystem, parseSystem, schemaErrors, solveCompiled, type EngineError, type SolveSuccess } from "./system.js";
-import type { SystemInput } from "./schema.js";
+import { onlyOnArrays, onlyOnStrings, type SystemInput } from "./schema.js";
 
 export const costsSchema = z.strictObject({
   format: z.literal("runwright-costs/1"),
@@ -28,9 +28,9 @@ export const costsSchema = z.strictObject({
   per: z.enum(["m", "ft"]),
   items: z.array(z.strictObject({
     material: z.enum(["copper", "aluminum"]).default("copper"),
-    size: z.string().min(1).max(40),
+    size: z.string().min(1, onlyOnStrings("must not be empty")).max(40, onlyOnStrings("must be at most 40 characters")),
     cost: z.number().refine((v) => Number.isFinite(v) && v >= 0, "must be 0 or more"),
-  })).min(1, "give at least one priced size"),
+  })).min(1, onlyOnArrays("give at least one priced size")),
 });
 export type Costs = z.output<typeof costsSchema>;
 

@@ -48,7 +48,9 @@ export type CircuitErrorCode =
   | "ILL_CONDITIONED"
   | "VOLTAGE_COLLAPSE"
   | "NO_CONVERGENCE"
-  | "BAD_ELEMENT";
+  | "BAD_ELEMENT"
+  /** The solve needs more work than its budget (PrepareOptions.workLimit / orderingWorkLimit). */
+  | "WORK_LIMIT";
 
 export interface CircuitError {
   code: CircuitErrorCode;
@@ -58,6 +60,8 @@ export interface CircuitError {
   nodes: number[];
   /** For VOLTAGE_COLLAPSE: the largest fraction of the constant-power demand that solves. */
   deliverableFraction?: number;
+  /** For WORK_LIMIT: which budget ran out — the ordering, one factorization alone, or the solves. */
+  budget?: "ordering" | "factorization" | "solves";
 }
 
 export interface CircuitSolution {
@@ -78,6 +82,14 @@ export interface PrepareOptions {
   extraPairs?: ReadonlyArray<readonly [number, number]>;
   /** Optional group id per node: nodes of one group are ordered together (see groupedOrder). */
   nodeGroups?: Int32Array;
+  /** Budget of the minimum-degree ordering (Σ degree² of the eliminated groups); past it the
+   *  circuit is refused with WORK_LIMIT. Default: none. */
+  orderingWorkLimit?: number;
+  /** Budget of the solves on this circuit, in work units (see PreparedCircuit.factorWork): every
+   *  numeric factorization charges factorWork, and a solve that would pass the budget stops with
+   *  WORK_LIMIT instead of running on (the collapse search can refactor a thousand times per case).
+   *  Default: none. resetWork() starts a new budget. */
+  workLimit?: number;
 }
 
 const K_RES = 0;
@@ -108,10 +120,18 @@ export interface PreparedCircuit {
   slots: Int32Array;
   num: NumericFactor;
   extraPairSlots: Int32Array;
+  /** Work units of one numeric factorization with its solve and stamping: Σ (column count)² of L
+   *  + 6·(2·nnz(L) + nnz(A) + 2·unknowns + elements + nodes). Deterministic, so the budget does
+   *  not depend on the machine or its load. */
+  factorWork: number;
+  /** The budget given to prepareCircuit, and the one of the solve in progress. */
+  defaultWorkLimit: number;
+  workLimit: number;
+  workUsed: number;
 }
 
-function fail(code: CircuitErrorCode, message: string, elementIds: string[], nodes: number[] = []): { ok: false; errors: CircuitError[] } {
-  return { ok: false, errors: [{ code, message, elementIds, nodes }] };
+function fail(code: CircuitErrorCode, message: string, elementIds: string[], nodes: number[] = [], extra: Partial<CircuitError> = {}): { ok: false; errors: CircuitError[] } {
+  return { ok: false, errors: [{ code, message, elementIds, nodes, ...extra }] };
 }
 
 export function prepareCircuit(netlist: Netlist, options: PrepareOptions = {}): PreparedCircuit | { ok: false; errors: CircuitError[] } {
@@ -310,7 +330,18 @@ export function prepareCircuit(netlist: Netlist, options: PrepareOptions = {}): 
       varGroups[v] = id;
     }
   }
-  const { sym, pairSlot } = analyze(pb, varGroups);
+  const analysed = analyze(pb, varGroups, options.orderingWorkLimit ?? Infinity);
+  if (!analysed) {
+    return fail("WORK_LIMIT", `The network is too densely meshed to solve: ordering its ${varCount} unknowns for elimination would take more than ${options.orderingWorkLimit} steps.`, [], [], { budget: "ordering" });
+  }
+  const { sym, pairSlot } = analysed;
+  const workLimit = options.workLimit ?? Infinity;
+  // The linear terms (triangular solves, stamping, per-element loops) cost about six times a
+  // multiply-add of the factorization per unit, measured on chains and grids (see SYSTEM_LIMITS).
+  const factorWork = sym.flops + 6 * (2 * sym.nnzL + sym.nnzA + 2 * sym.n + m + nodeCount);
+  if (factorWork > workLimit) {
+    return fail("WORK_LIMIT", `The network is too large or too densely meshed to solve: one factorization of its ${varCount} unknowns takes ${factorWork} work units, over the budget of ${workLimit}.`, [], [], { budget: "factorization" });
+  }
   for (let e = 0; e < m; e++) {
     const k = kinds[e];
     if (k !== K_RES && k !== K_VS && k !== K_CP) continue;
@@ -325,8 +356,28 @@ export function prepareCircuit(netlist: Netlist, options: PrepareOptions = {}): 
     netlist, kinds, na, nb, nodeVar, varCount,
     mergeOrder, mergeParent, mergeElement, slots,
     num: allocateNumeric(sym), extraPairSlots,
+    factorWork, defaultWorkLimit: workLimit, workLimit, workUsed: 0,
   };
 }
+
+/** Starts a new work budget on a prepared circuit (each solve of a system has its own). */
+export function resetWork(pc: PreparedCircuit, limit = pc.defaultWorkLimit): void {
+  pc.workUsed = 0;
+  pc.workLimit = limit;
+}
+
+/** Charges `units` of work; false (and nothing charged) when that would pass the budget. */
+export function chargeWork(pc: PreparedCircuit, units: number): boolean {
+  if (pc.workUsed + units > pc.workLimit) return false;
+  pc.workUsed += units;
+  return true;
+}
+
+/** The error of a solve stopped by its budget. */
+function workLimitError(pc: PreparedCircuit): { ok: false; errors: CircuitError[] } {
+  return fail("WORK_LIMIT", `Solving this circuit needs more than its budget of ${pc.workLimit} work units (${pc.workUsed} used, ${pc.factorWork} per factorization).`, [], [], { budget: "solves" });
+}
+const isWorkLimit = (r: CircuitResult) => !r.ok && r.errors[0].code === "WORK_LIMIT";
 
 /** Does the merge path between p and q (a loop being closed) pass through an ideal source? */
 function hasSourceLoop(elements: CircuitElement[], kinds: Uint8Array, mergeAdj: number[][], p: number, q: number): boolean {
@@ -392,6 +443,9 @@ export interface SolveOptions {
 export function solvePrepared(pc: PreparedCircuit, options: SolveOptions = {}): CircuitResult {
   const r = solveOnce(pc, options.powerScale ?? 1, options);
   if (r.ok || r.errors[0].code !== "NO_CONVERGENCE" || options.skipCollapseSearch) return r;
+  // Each step of the search below is a whole Newton solve (up to 60 factorizations): on a large
+  // network this is where the time goes, so every step is charged to the budget and the search
+  // stops when the budget is spent.
   // Newton failed: find the largest fraction of the constant-power demand that still solves. If
   // the full demand is beyond it, the supply cannot deliver it: voltage collapse.
   let lo = 0;
@@ -400,6 +454,7 @@ export function solvePrepared(pc: PreparedCircuit, options: SolveOptions = {}): 
   for (let it = 0; it < 30 && hi - lo > 1e-4 * hi; it++) {
     const mid = (lo + hi) / 2;
     const t = solveOnce(pc, mid, { ...options, initialVoltages: undefined });
+    if (isWorkLimit(t)) return t;
     if (t.ok) { lo = mid; best = t; } else hi = mid;
   }
   const cpIdx: number[] = [];
@@ -408,6 +463,7 @@ export function solvePrepared(pc: PreparedCircuit, options: SolveOptions = {}): 
   if (best) {
     let worstRatio = Infinity;
     const open = openCircuitLoadVoltages(pc);
+    if (!open && pc.workUsed + pc.factorWork > pc.workLimit) return workLimitError(pc);
     for (const e of cpIdx) {
       const v = best.voltages[pc.na[e]] - best.voltages[pc.nb[e]];
       const ratio = open ? v / open[e] : v;
@@ -477,7 +533,13 @@ function solveOnce(pc: PreparedCircuit, powerScale: number, options: SolveOption
     const va = nodeVar[na[e]];
     const vb = nodeVar[nb[e]];
     if (k === K_RES || k === K_VS) {
-      const g = 1 / (k === K_RES ? (el as { ohms: number }).ohms : (el as { seriesOhms: number }).seriesOhms);
+      const ohms = k === K_RES ? (el as { ohms: number }).ohms : (el as { seriesOhms: number }).seriesOhms;
+      const g = 1 / ohms;
+      // A resistance below about 5.6e-309 Ω (a subnormal double) has an infinite conductance: the
+      // solve would return NaN and ±Infinity as if they were results.
+      if (!Number.isFinite(g)) {
+        return fail("ILL_CONDITIONED", `The network cannot be solved accurately: the resistance of ${el.id} (${ohms} Ω) is too small to compute with; enter its real value, or 0 for an ideal source.`, [el.id], [na[e], nb[e]]);
+      }
       if (va === vb) continue;
       const sa = slots[3 * e]; const sb = slots[3 * e + 1]; const sab = slots[3 * e + 2];
       if (sa >= 0) base[sa] += g;
@@ -506,6 +568,7 @@ function solveOnce(pc: PreparedCircuit, powerScale: number, options: SolveOption
   const V = new Float64Array(varCount);
 
   // First solve: the linear network with constant-power loads open (their open-circuit voltage).
+  if (!chargeWork(pc, pc.factorWork)) return workLimitError(pc);
   Ax.set(base);
   let bad = factorize(num, Ax);
   if (bad >= 0) return illConditioned(pc, bad);
@@ -554,6 +617,7 @@ function solveOnce(pc: PreparedCircuit, powerScale: number, options: SolveOption
         if (cVa[i] >= 0) b[cVa[i]] -= inj;
         if (cVb[i] >= 0) b[cVb[i]] += inj;
       }
+      if (!chargeWork(pc, pc.factorWork)) return workLimitError(pc);
       bad = factorize(num, Ax);
       // Not positive definite: the linearisation point is past the nose of the P–V curve.
       if (bad >= 0) break;

@@ -23,6 +23,8 @@ export {
   type SourceResult,
   type WorstLoad,
   type CompiledSystem,
+  type SolveOptions,
+  type WorkLimits,
 } from "./system.js";
 export { solveCircuit, prepareCircuit, solvePrepared, type Netlist, type CircuitElement, type CircuitResult } from "./circuit.js";
 export { autosize, costsSchema, type AutosizeResult, type Costs } from "./autosize.js";

@@ -1,7 +1,7 @@
 // Lengths typed with a unit ("130 ft", "40 m", "12.5 yd") converted to the system's units with
 // mathjs's unit support. mathjs takes about 0.6 s to load, so it is imported only when a
 // document actually has a text length.
-import type { SystemInput } from "./schema.js";
+import { SYSTEM_LIMITS, type SystemInput } from "./schema.js";
 
 export interface LengthError { path: string; message: string }
 
@@ -15,6 +15,8 @@ export async function convertLength(value: number | string, units: "metric" | "i
   try {
     const u = unit(text);
     if (!u.equalBase(unit("1 m"))) return { error: `"${value}" is not a length` };
+    // A unit alone ("m", "ft") is a unit of 1 to mathjs; a length needs its number.
+    if (u.value === null) return { error: `"${value}" has no number (try "40 m" or "130 ft")` };
     const n = u.toNumber(units === "metric" ? "m" : "ft");
     if (!Number.isFinite(n)) return { error: `"${value}" is not a finite length` };
     return n;
@@ -29,7 +31,9 @@ export async function convertLength(value: number | string, units: "metric" | "i
 export async function resolveLengths(input: unknown): Promise<{ ok: true; value: unknown } | { ok: false; errors: LengthError[] }> {
   if (!input || typeof input !== "object") return { ok: true, value: input };
   const doc = input as Partial<SystemInput> & Record<string, unknown>;
-  if (!Array.isArray(doc.runs) || !doc.runs.some((r) => r && typeof r === "object" && typeof (r as { length?: unknown }).length === "string")) {
+  // Over the size limit: left as it is for the schema to refuse (TOO_LARGE) without converting
+  // tens of thousands of lengths first.
+  if (!Array.isArray(doc.runs) || doc.runs.length > SYSTEM_LIMITS.runs || !doc.runs.some((r) => r && typeof r === "object" && typeof (r as { length?: unknown }).length === "string")) {
     return { ok: true, value: input };
   }
   const units = doc.units === "imperial" ? "imperial" : "metric";

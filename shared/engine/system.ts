@@ -8,7 +8,9 @@
 import type { ZodError } from "zod";
 import { CAUTIONS } from "./cautions.js";
 import {
+  chargeWork,
   prepareCircuit,
+  resetWork,
   solvePrepared,
   theveninResistances,
   type CircuitElement,
@@ -125,6 +127,15 @@ export interface SolveOptions {
   caseName?: string;
   /** Skip the available-fault-current calculation (auto-size's inner loop does not need it). */
   skipFaultCurrent?: boolean;
+  /** Work budget of this solve (default: the one the system was compiled with). */
+  workLimit?: number;
+}
+
+/** Budgets of compiling and solving (defaults SYSTEM_LIMITS.orderingWork and .solveWork). The
+ *  API passes tighter ones than the command line: a request must answer within seconds. */
+export interface WorkLimits {
+  orderingWorkLimit?: number;
+  workLimit?: number;
 }
 
 const failure = (errors: EngineError[]): SolveFailure => ({ ok: false, errors, cautions: CAUTIONS });
@@ -134,6 +145,8 @@ export function formatPath(path: ReadonlyArray<PropertyKey>): string {
   let out = "";
   for (const part of path) {
     if (typeof part === "number") out += `[${part}]`;
+    // An empty key ({"": 1}) still needs a name in the path.
+    else if (part === "") out += '[""]';
     else out += out ? `.${String(part)}` : String(part);
   }
   return out;
@@ -208,6 +221,9 @@ export function parseSystem(input: unknown): { ok: true; system: System } | Solv
       errors.push({ code: "INVALID_FIELD", path: `runs[${i}].length`, ids: [r.id], message: `runs[${i}].length: "${r.length}" must be converted to a number first (resolveLengths)` });
     } else if (!(r.length > 0)) {
       errors.push({ code: "ZERO_LENGTH_RUN", path: `runs[${i}].length`, ids: [r.id], message: `runs[${i}].length: run ${r.id} has a length of ${r.length}; a run must be longer than 0` });
+    } else if (r.length < SYSTEM_LIMITS.minRunLength) {
+      const unit = system.units === "imperial" ? "ft" : "m";
+      errors.push({ code: "ZERO_LENGTH_RUN", path: `runs[${i}].length`, ids: [r.id], message: `runs[${i}].length: run ${r.id} has a length of ${r.length} ${unit}; a run must be at least ${SYSTEM_LIMITS.minRunLength} ${unit} long` });
     }
     const size = normalized(r.size);
     if (!size) errors.push({ code: "UNKNOWN_SIZE", path: `runs[${i}].size`, ids: [r.id], message: `runs[${i}].size: "${r.size}" is not a conductor size we know (AWG 18 … 4/0, 250 … 500 kcmil, or 0.5 … 240 mm2)` });
@@ -306,7 +322,7 @@ function ohmPerMetre(size: string, run: System["runs"][number], temperatureC: nu
 }
 
 /** Builds the netlist (values for the first case) and analyses its structure once. */
-export function compileSystem(system: System): CompiledSystem | SolveFailure {
+export function compileSystem(system: System, limits: WorkLimits = {}): CompiledSystem | SolveFailure {
   const np = system.points.length;
   const pointIndex = new Map(system.points.map((p, i) => [p.id, i]));
   const plusNode = new Int32Array(np);
@@ -362,7 +378,12 @@ export function compileSystem(system: System): CompiledSystem | SolveFailure {
   // Order the matrix point by point (a point's + and − terminal together).
   const nodeGroups = new Int32Array(next);
   for (let i = 0; i < np; i++) { nodeGroups[plusNode[i]] = i; nodeGroups[minusNode[i]] = i; }
-  const prepared = prepareCircuit(netlist, { extraPairs: pairs, nodeGroups });
+  const prepared = prepareCircuit(netlist, {
+    extraPairs: pairs,
+    nodeGroups,
+    orderingWorkLimit: limits.orderingWorkLimit ?? SYSTEM_LIMITS.orderingWork,
+    workLimit: limits.workLimit ?? SYSTEM_LIMITS.solveWork,
+  });
   compiled.pointPairs = pairs;
   if ("ok" in prepared) return failure(prepared.errors.map((e) => circuitErrorToEngine(compiled, e)));
   compiled.prepared = prepared;
@@ -399,7 +420,9 @@ export function applyCase(c: CompiledSystem, kase: Case): number {
     const el = netlist.elements[c.loadEl[i]];
     if (l.model === "constantResistance") {
       const ohms = l.ohms ?? (system.nominalVoltage * system.nominalVoltage) / l.watts!;
-      (el as { ohms: number }).ohms = ohms === 0 ? 0 : f === 0 ? 1e300 : ohms / f;
+      // A load factor of 0 (or so small that ohms / f overflows, e.g. 5e-324) leaves the load open.
+      const scaled = ohms / f;
+      (el as { ohms: number }).ohms = ohms === 0 ? 0 : f === 0 || !(scaled < 1e300) ? 1e300 : scaled;
     } else if (l.model === "constantCurrent") (el as { amps: number }).amps = l.amps * f;
     else (el as { watts: number }).watts = l.watts * f;
   });
@@ -503,9 +526,30 @@ function circuitErrorToEngine(c: Pick<CompiledSystem, "system" | "netlist" | "lo
       return { code: "ILL_CONDITIONED", ids, case: caseName, message: `${e.message}` };
     case "BAD_ELEMENT":
       return { code: "INVALID_FIELD", ids, case: caseName, message: `${e.message} (${ids.join(", ")})` };
+    case "WORK_LIMIT":
+      return { code: "TOO_LARGE", ids, case: caseName, message: tooMuchWorkMessage(c.system, e, caseName) };
     default:
       return { code: "ILL_CONDITIONED", ids, case: caseName, message: e.message };
   }
+}
+
+/** The id of the first result with a NaN or ±Infinity among its numbers (null counts as no value). */
+function firstNonFinite(...groups: (ReadonlyArray<object & { id: string }> | (object & { id: string }))[]): string | undefined {
+  for (const group of groups) {
+    for (const item of (Array.isArray(group) ? group : [group]) as (object & { id: string })[]) {
+      for (const v of Object.values(item)) if (typeof v === "number" && !Number.isFinite(v)) return item.id;
+    }
+  }
+  return undefined;
+}
+
+/** What a contractor reads when a solve is stopped by its work budget (SYSTEM_LIMITS.solveWork). */
+function tooMuchWorkMessage(system: System, e: CircuitError, caseName?: string): string {
+  const size = `${system.points.length} points, ${system.runs.length} runs, ${system.loads.length} loads, ${defaultCases(system).length} case${defaultCases(system).length === 1 ? "" : "s"}`;
+  const why = e.budget === "solves"
+    ? `solving its cases needs too many steps (constant-power loads at or near voltage collapse${caseName ? `, here in case "${caseName}"` : ""}, or too many cases for its size)`
+    : "it has too many loops between its points (a densely meshed network)";
+  return `This network is too large to solve within the engine's work budget (${size}): ${why}. Split it into several systems, remove cases, or fix what makes the loads collapse.`;
 }
 
 /** Drop limits: which limit governs a load and its status. */
@@ -533,10 +577,10 @@ const round = (v: number, digits: number) => Number(v.toFixed(digits));
 export const FINDINGS_PER_CODE = 50;
 
 /** Solves every case of a system and runs every check. Never throws for bad input. */
-export function solveSystem(input: unknown, options: SolveOptions = {}): SolveResult {
+export function solveSystem(input: unknown, options: SolveOptions & WorkLimits = {}): SolveResult {
   const parsed = parseSystem(input);
   if (!parsed.ok) return parsed;
-  const compiled = compileSystem(parsed.system);
+  const compiled = compileSystem(parsed.system, options);
   if ("ok" in compiled) return compiled;
   return solveCompiled(compiled, options);
 }
@@ -544,6 +588,8 @@ export function solveSystem(input: unknown, options: SolveOptions = {}): SolveRe
 /** Solves an already compiled system (auto-size re-solves with new run sizes this way). */
 export function solveCompiled(c: CompiledSystem, options: SolveOptions = {}): SolveResult {
   const { system, netlist, prepared } = c;
+  // Every solve has its own work budget (auto-size re-solves one compiled system many times).
+  resetWork(prepared, options.workLimit);
   const profile = system.limitProfile ?? DEFAULT_LIMIT_PROFILE;
   let cases = c.cases;
   if (options.caseName !== undefined) {
@@ -564,7 +610,13 @@ export function solveCompiled(c: CompiledSystem, options: SolveOptions = {}): So
   for (const kase of cases) {
     const temperatureC = applyCase(c, kase);
     const sol = solvePrepared(prepared);
-    if (!sol.ok) { errors.push(...sol.errors.map((e) => circuitErrorToEngine(c, e, kase.name))); continue; }
+    if (!sol.ok) {
+      const converted = sol.errors.map((e) => circuitErrorToEngine(c, e, kase.name));
+      // Out of budget: the other cases cannot be solved either.
+      if (sol.errors[0].code === "WORK_LIMIT") return failure(converted);
+      errors.push(...converted);
+      continue;
+    }
     const V = sol.voltages;
     const I = sol.currents;
     const pv = (i: number) => V[c.plusNode[i]] - V[c.minusNode[i]];
@@ -573,13 +625,19 @@ export function solveCompiled(c: CompiledSystem, options: SolveOptions = {}): So
     let fault: (number | null)[] = new Array(np).fill(null);
     if (!options.skipFaultCurrent) {
       const open = solvePrepared(prepared, { skipCollapseSearch: true, disabled: c.loadMask });
+      if (!open.ok && open.errors[0].code === "WORK_LIMIT") return failure(open.errors.map((e) => circuitErrorToEngine(c, e, kase.name)));
+      // One more factorization and the selected inverse (about as much work again).
+      if (!chargeWork(prepared, 2 * prepared.factorWork)) {
+        return failure([circuitErrorToEngine(c, { code: "WORK_LIMIT", message: "fault current", elementIds: [], nodes: [], budget: "solves" }, kase.name)]);
+      }
       const rth = theveninResistances(prepared, pairs, c.loadMask);
       if (open.ok && rth) {
         fault = system.points.map((p, i) => {
           const voc = open.voltages[c.plusNode[i]] - open.voltages[c.minusNode[i]];
           const r = rth[i];
-          if (r === 0) { unbounded.add(p.id); return null; }
           if (!Number.isFinite(r)) return 0;
+          // 0 Ω, or so little that V / R overflows: no finite estimate.
+          if (r === 0 || !Number.isFinite(voc / r)) { unbounded.add(p.id); return null; }
           return voc / r;
         });
       }
@@ -636,6 +694,15 @@ export function solveCompiled(c: CompiledSystem, options: SolveOptions = {}): So
         status: underVoltage ? "over" : k.status, underVoltage,
       };
     });
+    // Values at the edge of what the schema allows (a load factor of 100 on a 1e7 W load, a
+    // 5e-324 Ω load) can overflow the arithmetic: report that instead of NaN or Infinity, which
+    // JSON would carry as null.
+    const totals: { id: string; loadW: number; conductorLossW: number; sourceLossW: number } = { id: "(totals)", loadW, conductorLossW, sourceLossW };
+    const overflow = firstNonFinite(points, sources, runs, loads, totals);
+    if (overflow) {
+      errors.push({ code: "ILL_CONDITIONED", ids: [overflow], case: kase.name, message: `The network cannot be solved accurately in case "${kase.name}": the result for ${overflow} is out of range (a resistance so small, or a load so large, that the arithmetic overflows). Check the values of ${overflow} and what it connects to.` });
+      continue;
+    }
     // A constant-current load cannot run at or below 0 V: the supply cannot push its current
     // through these cables. Say so instead of reporting negative volts.
     const dead = loads.filter((lr) => lr.voltage <= 0 && lr.current !== 0);
@@ -649,7 +716,9 @@ export function solveCompiled(c: CompiledSystem, options: SolveOptions = {}): So
       conductorTemperatureC: temperatureC,
       newtonIterations: sol.newtonIterations,
       points, sources, runs, loads,
-      totals: { loadW, conductorLossW, sourceLossW, lossPercent: loadW > 0 ? (conductorLossW / loadW) * 100 : 0 },
+      // Loads that draw (next to) nothing — a load factor of 1e-323 — give no meaningful percentage;
+      // Infinity would reach the client as null.
+      totals: { loadW, conductorLossW, sourceLossW, lossPercent: loadW > 0 && Number.isFinite((conductorLossW / loadW) * 100) ? (conductorLossW / loadW) * 100 : 0 },
     });
   }
   if (errors.length > 0) return failure(errors);
