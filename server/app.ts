@@ -12,7 +12,7 @@ import { createPassport } from "./auth/passport.js";
 import { sessionMiddleware } from "./auth/session.js";
 import { unconfiguredMailer, type Mailer } from "./mail/mailer.js";
 import { csrfGuard } from "./middleware/csrf.js";
-import { apiNotFound, errorHandler } from "./middleware/error-handler.js";
+import { apiNotFound, errorHandler, REFUSED_KEY_MARK } from "./middleware/error-handler.js";
 import { AUTH_RATE_LIMIT, type RateLimitSettings } from "./middleware/rate-limit.js";
 import { authRoutes } from "./routes/auth.routes.js";
 import { companyRoutes } from "./routes/company.routes.js";
@@ -56,6 +56,19 @@ export interface AppOptions {
   payments?: Payments | null;
   /** Background jobs (started by the caller, with workers registered); absent: a refused e-mail answers 502. */
   jobs?: JobQueue | null;
+}
+
+/**
+ * JSON keys that name JavaScript's conversion methods. No field of the API is called so, and an
+ * object carrying them as plain values ({"name": {"length": {"valueOf": 0, "toString": 0}}})
+ * cannot be turned into a number: zod's length checks, which read `length` before the type check
+ * has refused the value, then threw a TypeError (a 500) instead of naming the field. Found by the
+ * solve endpoint's fuzz test; refused here for every route.
+ */
+const CONVERSION_KEYS = new Set(["valueOf", "toString", "toLocaleString", "toJSON"]);
+function refuseConversionKeys(key: string, value: unknown): unknown {
+  if (CONVERSION_KEYS.has(key)) throw new SyntaxError(`${REFUSED_KEY_MARK}${key}`);
+  return value;
 }
 
 /** Builds the Express app. No side effects: it neither listens nor connects. */
@@ -111,7 +124,7 @@ export function createApp(options: AppOptions): Express {
   app.use("/api/webhooks/stripe", stripeWebhookRoute(deps));
 
   const api = express.Router();
-  api.use(express.json({ limit: MAX_JSON_BODY_BYTES }));
+  api.use(express.json({ limit: MAX_JSON_BODY_BYTES, reviver: refuseConversionKeys }));
   api.use(healthRoutes(db, dbTimeoutMs));
   api.use(csrfGuard(options.publicUrl));
   api.use(

@@ -38,6 +38,21 @@ describe("the API's error shape", () => {
     expectErrorShape(res.body, "invalid_json");
   });
 
+  it("refuses a value that cannot be turned into a number where a length is read, 400 naming the key, on any route", async () => {
+    // {"length": {"valueOf": 0, "toString": 0}} in place of text made zod's length check throw (a 500).
+    // Sign-in and sign-up parse the body (a 500 before); the others refuse before any route runs.
+    for (const path of ["/api/auth/sign-in", "/api/auth/sign-up", "/api/clients", "/api/jobs"]) {
+      const res = await request(app)
+        .post(path)
+        .set(CSRF_HEADER, "1")
+        .set("Content-Type", "application/json")
+        .send('{"email": {"length": {"valueOf": 0, "toString": 0}}, "name": {"length": {"valueOf": 0, "toString": 0}}, "password": "long enough password", "companyName": "Co"}');
+      expect(res.status, JSON.stringify(res.body)).toBe(400);
+      const body = expectErrorShape(res.body, "invalid_input");
+      expect(body.error.message).toMatch(/^valueOf: /);
+    }
+  });
+
   it("answers a body over the limit with 413 payload_too_large", async () => {
     const big = JSON.stringify({ notes: "x".repeat(MAX_JSON_BODY_BYTES + 10) });
     const res = await request(app).post("/api/anything").set("Content-Type", "application/json").send(big);
