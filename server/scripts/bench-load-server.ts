@@ -15,7 +15,8 @@
 // Then it sends the parent { type: "ready", … } with the URL and the ids.
 //
 // Messages from the parent: "measure" starts the server's own counters (CPU time, event-loop delay,
-// pool waiters), "stats" answers them, "stop" closes the server and the pool and drops the database.
+// pool waiters, each kind of request's time in the server), "stats" answers them, "stop" closes the
+// server and the pool and drops the database.
 import { randomBytes } from "node:crypto";
 import { readFileSync } from "node:fs";
 import { createServer } from "node:http";
@@ -66,6 +67,22 @@ export interface BenchLoadStats {
   poolWaiting: { max: number; mean: number; size: number };
   /** With BENCH_TRACE_QUERIES=1: every query by kind, with the time from sending it to its answer (ms). */
   queries?: Record<string, { count: number; ms: number }>;
+  /**
+   * Each kind of request's time in the server, ms: from Node's "request" event (headers read, so
+   * not the time a request waited in the socket while the event loop was busy) to the response's
+   * "finish" (its last byte handed to the kernel), every request's.
+   */
+  serverTime: Record<string, number[]>;
+}
+
+/** The bench's kinds of request, by path (as bench-load.ts names them). */
+function requestKind(url: string | undefined): string {
+  const path = (url ?? "").split("?")[0];
+  if (path === "/api/jobs") return "jobs list";
+  if (/^\/api\/jobs\/[^/]+$/.test(path)) return "job detail";
+  if (/^\/api\/systems\/[^/]+\/solve$/.test(path)) return "solve";
+  if (/^\/api\/quotes\/[^/]+\/pdf$/.test(path)) return "quote PDF";
+  return "other";
 }
 
 /** Times every pg query (pg.Client#query, which the pool and TypeORM both go through), by kind. */
@@ -178,7 +195,14 @@ async function main() {
     // Every bench user signs in from 127.0.0.1 within a second: the default 10 per 15 minutes would refuse them.
     authRateLimit: { limit: 100_000, windowMs: 15 * 60 * 1000 },
   });
-  const server = createServer(app);
+  // Each request's time in the server, by kind (bench-load.ts reads it per phase).
+  let serverTimes: Record<string, number[]> = {};
+  const server = createServer((req, res) => {
+    const started = performance.now();
+    const kind = requestKind(req.url); // now: the routers rewrite req.url on the way
+    res.once("finish", () => (serverTimes[kind] ??= []).push(performance.now() - started));
+    app(req, res);
+  });
   await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   process.off("disconnect", orphaned);
@@ -255,6 +279,7 @@ async function main() {
       cpu = process.cpuUsage();
       started = process.hrtime.bigint();
       waitingMax = waitingSum = waitingSamples = 0;
+      serverTimes = {};
       tracer?.reset();
     } else if (message?.type === "stats") {
       const used = process.cpuUsage(cpu);
@@ -265,6 +290,7 @@ async function main() {
         loopDelay: { p50: loop.percentile(50) / 1e6, p99: loop.percentile(99) / 1e6, max: loop.max / 1e6 },
         poolWaiting: { max: waitingMax, mean: waitingSamples ? waitingSum / waitingSamples : 0, size: pool.totalCount },
         queries: tracer?.figures(),
+        serverTime: serverTimes,
       };
       send(stats);
     } else if (message?.type === "stop") {
