@@ -12,7 +12,7 @@ import { createPassport } from "./auth/passport.js";
 import { sessionMiddleware } from "./auth/session.js";
 import { unconfiguredMailer, type Mailer } from "./mail/mailer.js";
 import { csrfGuard } from "./middleware/csrf.js";
-import { apiNotFound, errorHandler, REFUSED_KEY_MARK } from "./middleware/error-handler.js";
+import { apiNotFound, errorHandler } from "./middleware/error-handler.js";
 import { AUTH_RATE_LIMIT, type RateLimitSettings } from "./middleware/rate-limit.js";
 import { authRoutes } from "./routes/auth.routes.js";
 import { companyRoutes } from "./routes/company.routes.js";
@@ -63,13 +63,29 @@ export interface AppOptions {
  * object carrying them as plain values ({"name": {"length": {"valueOf": 0, "toString": 0}}})
  * cannot be turned into a number: zod's length checks, which read `length` before the type check
  * has refused the value, then threw a TypeError (a 500) instead of naming the field. Found by the
- * solve endpoint's fuzz test; refused here for every route.
+ * solve endpoint's fuzz test. They are left out of every parsed body, so the field that held them
+ * is refused by its own schema, by name.
  */
-const CONVERSION_KEYS = new Set(["valueOf", "toString", "toLocaleString", "toJSON"]);
-function refuseConversionKeys(key: string, value: unknown): unknown {
-  if (CONVERSION_KEYS.has(key)) throw new SyntaxError(`${REFUSED_KEY_MARK}${key}`);
-  return value;
-}
+const CONVERSION_KEYS = ["valueOf", "toString", "toLocaleString", "toJSON"];
+/**
+ * Removes those keys from a parsed body, walking it with a stack of its own rather than recursion
+ * (JSON.parse's reviver recurses, and a body nested a few thousand deep then overflowed the stack).
+ */
+const dropConversionKeys: express.RequestHandler = (req, _res, next) => {
+  const pending: unknown[] = [req.body];
+  while (pending.length > 0) {
+    const value = pending.pop();
+    if (typeof value !== "object" || value === null) continue;
+    if (Array.isArray(value)) {
+      for (const item of value) if (typeof item === "object" && item !== null) pending.push(item);
+      continue;
+    }
+    const record = value as Record<string, unknown>;
+    for (const key of CONVERSION_KEYS) if (Object.hasOwn(record, key)) delete record[key];
+    for (const item of Object.values(record)) if (typeof item === "object" && item !== null) pending.push(item);
+  }
+  next();
+};
 
 /** Builds the Express app. No side effects: it neither listens nor connects. */
 export function createApp(options: AppOptions): Express {
@@ -124,7 +140,8 @@ export function createApp(options: AppOptions): Express {
   app.use("/api/webhooks/stripe", stripeWebhookRoute(deps));
 
   const api = express.Router();
-  api.use(express.json({ limit: MAX_JSON_BODY_BYTES, reviver: refuseConversionKeys }));
+  api.use(express.json({ limit: MAX_JSON_BODY_BYTES }));
+  api.use(dropConversionKeys);
   api.use(healthRoutes(db, dbTimeoutMs));
   api.use(csrfGuard(options.publicUrl));
   api.use(

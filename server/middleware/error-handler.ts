@@ -18,9 +18,6 @@ function isDatabaseUnavailable(error: unknown): boolean {
   return /timeout exceeded when trying to connect|Connection terminated|Driver not Connected/i.test(error.message);
 }
 
-/** Starts the parse error of a JSON key the API refuses (see refuseConversionKeys in app.ts). */
-export const REFUSED_KEY_MARK = "runwright-refused-key:";
-
 /** Turns anything thrown into `{ error: { code, message, details? } }` with the right status. */
 export const errorHandler: ErrorRequestHandler = (error, req, res, _next) => {
   const appError = toAppError(error);
@@ -56,14 +53,7 @@ function toAppError(error: unknown): AppError {
   }
   // body-parser marks its errors with a type and a status.
   const type = (error as { type?: unknown })?.type;
-  if (type === "entity.parse.failed") {
-    const message = (error as { message?: unknown }).message;
-    if (typeof message === "string" && message.startsWith(REFUSED_KEY_MARK)) {
-      const key = message.slice(REFUSED_KEY_MARK.length);
-      return new AppError("invalid_input", `${key}: no field is called "${key}"; the request was refused`, { fields: { [key]: "is not a field" } });
-    }
-    return new AppError("invalid_json", "The request body is not valid JSON");
-  }
+  if (type === "entity.parse.failed") return new AppError("invalid_json", "The request body is not valid JSON");
   if (type === "entity.too.large") {
     const limit = (error as { limit?: number }).limit;
     return new AppError("payload_too_large", `The request body is larger than the limit of ${limit ?? "?"} bytes`);

@@ -44,6 +44,8 @@ describe("two instances on one database", () => {
     stripeAccount = { secretKey: stripe.secretKey, apiBase: stripe.apiBase! };
     const shared = {
       DATABASE_URL: database.url,
+      // The balancer's address in e-mailed links, whichever instance sends them (here: A's).
+      PUBLIC_URL: `http://127.0.0.1:${portA}`,
       SESSION_SECRET: randomBytes(32).toString("base64url"),
       SMTP_HOST: "127.0.0.1",
       SMTP_PORT: String(relay.port),
