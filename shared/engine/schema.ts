@@ -61,7 +61,7 @@ const text = (min: number, max: number) =>
 
 const tooMany = (max: number, what: string) => `must have at most ${max.toLocaleString("en-US")} ${what} per system; split the network into several systems`;
 /** Source id → value: no more entries than a system may have sources. */
-const perSource = (value: z.ZodType<number>) =>
+const perSource = <T extends z.ZodType<number>>(value: T) =>
   z.record(z.string(), value).refine((r) => Object.keys(r).length <= SYSTEM_LIMITS.sources, `must have at most ${SYSTEM_LIMITS.sources} entries (one per source)`);
 
 const id = text(1, SYSTEM_LIMITS.idLength)
