@@ -6,7 +6,7 @@
 // or frame is ever split by pdfkit in the middle of drawing it.
 import PDFDocument from "pdfkit";
 import type { QuoteSnapshot } from "../../shared/schemas/estimates.js";
-import { checkImage, LOGO_IMAGES } from "../middleware/upload.js";
+import { checkImage, LOGO_IMAGES } from "../images.js";
 import { FONT, registerFonts } from "./fonts.js";
 
 type Doc = PDFKit.PDFDocument;

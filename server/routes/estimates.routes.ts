@@ -3,6 +3,7 @@ import { CreateQuoteInput, EstimateLimits, SaveEstimateInput, SendQuoteInput, Up
 import { can, requireAuth } from "../auth/context.js";
 import { AppError } from "../errors.js";
 import { singleFile } from "../middleware/upload.js";
+import { LOGO_IMAGES } from "../images.js";
 import { PdfCache, quotePdfKey } from "../pdf/pdf-cache.js";
 import { presentEstimatingSettings, presentQuoteDetail, presentQuoteSummary, senderNames } from "../presenters/estimates.presenter.js";
 import { findEstimate, generateEstimate, presentEstimate, saveEstimate } from "../services/estimate.service.js";
@@ -46,7 +47,7 @@ export function estimatingSettingsRoutes({ db }: AccountDeps): Router {
     res.setHeader("Cache-Control", "private, no-cache");
     res.send(logo.content);
   });
-  router.post("/logo", can("company:write"), singleFile("file", EstimateLimits.logoMaxBytes, "logo"), async (req, res) => {
+  router.post("/logo", can("company:write"), singleFile("file", EstimateLimits.logoMaxBytes, "logo", LOGO_IMAGES), async (req, res) => {
     if (!req.file) throw new AppError("invalid_input", 'file: send the logo in the multipart field "file"', { field: "file" });
     const { company, hasLogo } = await saveLogo(db, requireAuth(req).companyId, req.file.buffer);
     res.json(presentEstimatingSettings(company, hasLogo));

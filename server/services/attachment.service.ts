@@ -5,7 +5,7 @@ import type { z } from "zod";
 import { JobLimits, type AttachmentListQuery } from "../../shared/schemas/jobs.js";
 import { Attachment, Job } from "../db/entities/index.js";
 import { AppError } from "../errors.js";
-import { checkImage, imageTypeOf, PHOTO_IMAGES } from "../middleware/upload.js";
+import { checkImage, imageTypeOf, PHOTO_IMAGES } from "../images.js";
 import { likePattern, pageAndSort, type Page } from "./paging.js";
 import { companyScope } from "./tenancy.js";
 
